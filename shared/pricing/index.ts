@@ -1,0 +1,10 @@
+/** Spinwright pricing rules: pure functions over integer minor units. See price-quote.ts for the order of operations. */
+export * from './money'
+export * from './errors'
+export * from './iso-date'
+export * from './price-list'
+export * from './discount'
+export * from './copper'
+export * from './price-quote'
+export * from './quote-number'
+export * from './incoterms'
