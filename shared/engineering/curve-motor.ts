@@ -1,0 +1,159 @@
+/**
+ * Motor known by a measured speed-torque curve (shaft torque, optionally line current and input
+ * power) at rated volts and Hz, interpolated by PCHIP (see pchip.ts).
+ *
+ * Voltage scaling, the usual small-signal rule for an induction motor whose magnetic circuit is
+ * not saturated (Fitzgerald, Electric Machinery, torque proportional to V^2 at fixed slip):
+ * at supply V and fixed slip, torque and input power scale with (V / V_rated)^2, current with
+ * V / V_rated. At another frequency the curve is mapped by slip (speeds scale with synchronous
+ * speed) and the voltage rules kept: a measured curve says nothing about frequency, so use a
+ * circuit model for frequency studies.
+ *
+ * Beyond the last measured speed the torque runs linearly to zero at synchronous speed (the
+ * near-linear torque-slip law of an induction motor at small slip) and on past it; current and
+ * input power are held at their last values. Such points are flagged `extrapolated`.
+ */
+import { EngineeringInputError, requireArray, requireFinite, requireObject, requirePoles, requirePositive } from './errors'
+import { Pchip } from './pchip'
+import { radPerSecond, syncRpm } from './speed'
+import type { CurveMotor, CurvePoint, MotorEvaluation, Supply } from './types'
+
+export interface BoundMotor {
+  readonly syncRpm: number
+  /** Shaft torque in N m at `rpm` (the solver's hot path). */
+  torque(rpm: number): number
+  evaluate(rpm: number): MotorEvaluation
+  /** Speeds (at this supply) where the torque curve may have a local minimum: the scan visits them. */
+  readonly dipRpms: readonly number[]
+}
+
+export interface PreparedMotorBase {
+  readonly prepared: 'motor'
+  readonly poles: number
+  bind(supply: Supply): BoundMotor
+}
+
+export function validateCurveMotor(input: unknown, field = 'motor'): CurveMotor {
+  const m = requireObject(input, field)
+  const poles = requirePoles(m.poles, `${field}.poles`)
+  const ratedVolts = requirePositive(m.ratedVolts, `${field}.ratedVolts`)
+  const ratedHz = requirePositive(m.ratedHz, `${field}.ratedHz`)
+  const ns = syncRpm(poles, ratedHz)
+  const raw = requireArray(m.points, `${field}.points`, 2)
+  const points: CurvePoint[] = []
+  let withCurrent = 0
+  let withInput = 0
+  raw.forEach((p, i) => {
+    const f = `${field}.points[${i}]`
+    const o = requireObject(p, f)
+    const rpm = requireFinite(o.rpm, `${f}.rpm`)
+    if (rpm < 0) throw new EngineeringInputError(`${f}.rpm`, 'speed must not be negative')
+    if (i === 0 && rpm !== 0) throw new EngineeringInputError(`${f}.rpm`, 'the first point must be at standstill (rpm 0)')
+    const prev = points[i - 1]
+    if (prev && rpm <= prev.rpm) throw new EngineeringInputError(`${f}.rpm`, 'speeds must be strictly increasing')
+    if (rpm > ns) throw new EngineeringInputError(`${f}.rpm`, `above synchronous speed ${ns} r/min at rated Hz`)
+    const torqueNm = requireFinite(o.torqueNm, `${f}.torqueNm`)
+    if (rpm === ns && torqueNm > 0) {
+      throw new EngineeringInputError(`${f}.torqueNm`, 'torque at synchronous speed must be 0 or below')
+    }
+    const point: CurvePoint = { rpm, torqueNm }
+    if (o.currentA !== undefined) {
+      const c = requireFinite(o.currentA, `${f}.currentA`)
+      if (c < 0) throw new EngineeringInputError(`${f}.currentA`, 'must not be negative')
+      point.currentA = c
+      withCurrent++
+    }
+    if (o.inputW !== undefined) {
+      const w = requireFinite(o.inputW, `${f}.inputW`)
+      if (w < 0) throw new EngineeringInputError(`${f}.inputW`, 'must not be negative')
+      point.inputW = w
+      withInput++
+    }
+    points.push(point)
+  })
+  if (withCurrent !== 0 && withCurrent !== points.length) {
+    throw new EngineeringInputError(`${field}.points`, 'give currentA on every point or on none')
+  }
+  if (withInput !== 0 && withInput !== points.length) {
+    throw new EngineeringInputError(`${field}.points`, 'give inputW on every point or on none')
+  }
+  return { model: 'curve', poles, ratedVolts, ratedHz, points }
+}
+
+export class PreparedCurveMotor implements PreparedMotorBase {
+  readonly prepared = 'motor'
+  readonly poles: number
+  readonly source: CurveMotor
+  private readonly torqueCurve: Pchip
+  private readonly currentCurve: Pchip | undefined
+  private readonly inputCurve: Pchip | undefined
+  private readonly ratedSync: number
+  private readonly lastRpm: number
+  private readonly lastTorque: number
+  /** Slope of the torque beyond the last point, N m per rated-frequency r/min. */
+  private readonly tailSlope: number
+  private readonly minimaRpm: number[]
+
+  constructor(motor: CurveMotor) {
+    this.source = motor
+    this.poles = motor.poles
+    this.ratedSync = syncRpm(motor.poles, motor.ratedHz)
+    const rpm = motor.points.map((p) => p.rpm)
+    this.torqueCurve = new Pchip(rpm, motor.points.map((p) => p.torqueNm))
+    const first = motor.points[0]
+    this.currentCurve = first?.currentA === undefined ? undefined : new Pchip(rpm, motor.points.map((p) => p.currentA ?? 0))
+    this.inputCurve = first?.inputW === undefined ? undefined : new Pchip(rpm, motor.points.map((p) => p.inputW ?? 0))
+    const last = motor.points[motor.points.length - 1]
+    this.lastRpm = last?.rpm ?? 0
+    this.lastTorque = last?.torqueNm ?? 0
+    this.tailSlope =
+      this.lastRpm < this.ratedSync
+        ? -this.lastTorque / (this.ratedSync - this.lastRpm)
+        : this.torqueCurve.derivative(this.lastRpm)
+    // PCHIP has its local extrema on knots, so a torque dip's bottom is a knot.
+    const t = motor.points.map((p) => p.torqueNm)
+    this.minimaRpm = []
+    for (let i = 1; i < t.length - 1; i++) {
+      const here = t[i] ?? 0
+      if (here <= (t[i - 1] ?? 0) && here < (t[i + 1] ?? 0)) this.minimaRpm.push(rpm[i] ?? 0)
+    }
+  }
+
+  /** Torque on the rated curve at a rated-frequency speed. */
+  private ratedTorque(n: number): number {
+    if (n <= this.lastRpm) return this.torqueCurve.value(n)
+    return this.lastTorque + this.tailSlope * (n - this.lastRpm)
+  }
+
+  bind(supply: Supply): BoundMotor {
+    const ns = syncRpm(this.poles, supply.hz)
+    const toRated = this.ratedSync / ns
+    const kv = supply.volts / this.source.ratedVolts
+    const kv2 = kv * kv
+    const volts = supply.volts
+    const lastRpm = this.lastRpm
+    const self = this
+    const torque = (rpm: number): number => kv2 * self.ratedTorque(rpm * toRated)
+    return {
+      syncRpm: ns,
+      dipRpms: this.minimaRpm.map((n) => n / toRated),
+      torque,
+      evaluate(rpm: number): MotorEvaluation {
+        const n = rpm * toRated
+        const nc = Math.min(n, lastRpm)
+        const shaftTorqueNm = torque(rpm)
+        const outputW = shaftTorqueNm * radPerSecond(rpm)
+        const result: MotorEvaluation = { rpm, slip: (ns - rpm) / ns, shaftTorqueNm, outputW }
+        if (self.currentCurve) result.currentA = Math.max(0, kv * self.currentCurve.value(nc))
+        if (self.inputCurve) {
+          const inputW = Math.max(0, kv2 * self.inputCurve.value(nc))
+          result.inputW = inputW
+          result.efficiency = inputW > 0 && outputW > 0 ? outputW / inputW : 0
+          if (result.currentA !== undefined && result.currentA > 0) result.powerFactor = inputW / (volts * result.currentA)
+        }
+        if (n > lastRpm) result.extrapolated = true
+        return result
+      },
+    }
+  }
+}

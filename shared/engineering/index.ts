@@ -1,0 +1,28 @@
+/**
+ * Spinwright engineering core: public API. Pure TypeScript, SI units inside, speeds in r/min.
+ * See docs/engineering.md for the methods and their sources.
+ */
+export * from './types'
+export { EngineeringInputError } from './errors'
+export { syncRpm, slipOf, radPerSecond, validateSupply } from './speed'
+export { Pchip } from './pchip'
+export { validateMotor, prepareMotor, isPreparedMotor, evaluateMotor, type PreparedMotor, type BoundMotor } from './motor'
+export { FIXED_LOSS_KNEE } from './machine'
+export { validateLoad, prepareLoad, isPreparedLoad, evaluateLoad, type PreparedLoad } from './load'
+export { solveOperatingPoint, validateSolveOptions } from './solver'
+export {
+  FLOW_FACTORS,
+  PRESSURE_FACTORS,
+  TORQUE_FACTORS,
+  POWER_FACTORS,
+  toSI,
+  fromSI,
+  convert,
+  quantityOf,
+  type FlowUnit,
+  type PressureUnit,
+  type TorqueUnit,
+  type PowerUnit,
+  type EngineeringUnit,
+  type Quantity,
+} from './units'

@@ -1,0 +1,224 @@
+/**
+ * Operating point of a motor driving a load: the first stable intersection of motor shaft torque
+ * and load torque met while accelerating from standstill.
+ *
+ * Method. f(n) = T_motor(n) - T_load(n). If f(start) <= 0 the motor cannot start the load. Else a
+ * scan climbs a fixed grid in slip (denser near synchronous speed, where running points lie) plus,
+ * for measured curves, every knot at a local torque minimum (PCHIP puts its extrema on knots, so a
+ * dip's bottom is always visited), and stops at the first sign change. f changes from + to - there,
+ * i.e. dT_motor/dn < dT_load/dn: the intersection is stable by construction and an unstable one is
+ * never reported. The bracket is closed by Brent's method (R. P. Brent, Algorithms for
+ * Minimization without Derivatives, 1973: inverse quadratic interpolation and secant steps
+ * safeguarded by bisection). The grid points above the root are then checked: if the motor could
+ * out-pull the load again at a higher speed, it is trapped in a torque dip and the point is
+ * flagged as a crawl.
+ */
+import { EngineeringInputError, requireFinite, requireObject, requirePositive } from './errors'
+import { isPreparedLoad, prepareLoad, type PreparedLoad } from './load'
+import { isPreparedMotor, prepareMotor, type PreparedMotor } from './motor'
+import { validateSupply } from './speed'
+import type { Load, MotorModel, OperatingPoint, SolveOptions, Supply } from './types'
+
+/** Slips of the scan grid (after the start speed). */
+const SLIP_GRID = [0.8, 0.6, 0.45, 0.33, 0.24, 0.17, 0.11, 0.07, 0.04, 0.015, 0]
+
+export function validateSolveOptions(input: unknown, field = 'options'): SolveOptions {
+  if (input === undefined) return {}
+  const o = requireObject(input, field)
+  const out: SolveOptions = {}
+  if (o.startRpm !== undefined) {
+    const v = requireFinite(o.startRpm, `${field}.startRpm`)
+    if (v < 0) throw new EngineeringInputError(`${field}.startRpm`, 'speed must not be negative')
+    out.startRpm = v
+  }
+  if (o.tolRpm !== undefined) out.tolRpm = requirePositive(o.tolRpm, `${field}.tolRpm`)
+  return out
+}
+
+/**
+ * Solve the steady operating point. Accepts raw inputs (validated here, errors name the field) or
+ * the results of prepareMotor / prepareLoad (validated once; the fast path for repeated solves).
+ */
+export function solveOperatingPoint(
+  motor: MotorModel | PreparedMotor,
+  load: Load | PreparedLoad,
+  supply: Supply,
+  options?: SolveOptions,
+): OperatingPoint {
+  const pm = isPreparedMotor(motor) ? motor : prepareMotor(motor, 'motor')
+  const pl = isPreparedLoad(load) ? load : prepareLoad(load, 'load')
+  const sup = validateSupply(supply)
+  const opts = validateSolveOptions(options)
+  const bm = pm.bind(sup)
+  const ns = bm.syncRpm
+  const n0 = opts.startRpm ?? 0
+  if (n0 >= ns) throw new EngineeringInputError('options.startRpm', `must be below synchronous speed ${ns} r/min`)
+  const tol = opts.tolRpm ?? 1e-6 * ns
+  let evaluations = 0
+  const f = (n: number): number => {
+    evaluations++
+    return bm.torque(n) - pl.torque(n)
+  }
+
+  const tm0 = bm.torque(n0)
+  const tl0 = pl.torque(n0)
+  evaluations++
+  if (!(tm0 > tl0)) {
+    return finish('no-start', n0, false)
+  }
+
+  const grid = scanGrid(ns, n0, bm.dipRpms, pl.maxRpm)
+  let lo = n0
+  let flo = tm0 - tl0
+  let hi = -1
+  let fhi = 0
+  let next = grid.length
+  for (let i = 0; i < grid.length; i++) {
+    const n = grid[i] ?? ns
+    const fn = f(n)
+    if (fn <= 0) {
+      hi = n
+      fhi = fn
+      next = i + 1
+      break
+    }
+    lo = n
+    flo = fn
+  }
+  if (hi < 0) {
+    if (pl.maxRpm < ns) {
+      // evaluate() raises the field-named error for a fan run off the end of its curve.
+      pl.evaluate(pl.maxRpm * (1 + 1e-9))
+    }
+    throw new Error('solveOperatingPoint: motor torque exceeds load torque up to synchronous speed')
+  }
+  const root = fhi === 0 ? hi : brent(f, lo, hi, flo, fhi, tol)
+
+  let crawl = false
+  for (let i = next; i < grid.length; i++) {
+    const n = grid[i] ?? ns
+    if (n <= root) continue
+    if (f(n) > 0) {
+      crawl = true
+      break
+    }
+  }
+  return finish('running', root, crawl)
+
+  function finish(status: OperatingPoint['status'], rpm: number, crawl: boolean): OperatingPoint {
+    const me = bm.evaluate(rpm)
+    evaluations++
+    const le = pl.evaluate(rpm)
+    const point: OperatingPoint = {
+      status,
+      rpm,
+      slip: me.slip,
+      syncRpm: ns,
+      shaftTorqueNm: me.shaftTorqueNm,
+      loadTorqueNm: le.torqueNm,
+      outputW: status === 'running' ? (me.outputW ?? 0) : 0,
+      crawl,
+      extrapolated: Boolean(me.extrapolated || le.extrapolated),
+      startingTorqueNm: tm0,
+      loadStartingTorqueNm: tl0,
+      evaluations,
+    }
+    if (me.airGapTorqueNm !== undefined) point.airGapTorqueNm = me.airGapTorqueNm
+    if (me.currentA !== undefined) point.currentA = me.currentA
+    if (me.powerFactor !== undefined) point.powerFactor = me.powerFactor
+    if (me.inputW !== undefined) point.inputW = me.inputW
+    if (me.efficiency !== undefined) point.efficiency = status === 'running' ? me.efficiency : 0
+    if (le.flowM3s !== undefined) point.flowM3s = le.flowM3s
+    if (le.staticPa !== undefined) point.staticPa = le.staticPa
+    if (le.flowM3s !== undefined) point.fanShaftW = le.shaftW
+    if (le.fanStall !== undefined) point.fanStall = le.fanStall
+    if (le.fanNoFlow !== undefined) point.fanNoFlow = le.fanNoFlow
+    assertFinite(point)
+    return point
+  }
+}
+
+function scanGrid(ns: number, n0: number, dips: readonly number[], maxRpm: number): number[] {
+  const top = Math.min(ns, maxRpm)
+  const pts: number[] = []
+  for (const s of SLIP_GRID) {
+    const n = ns * (1 - s)
+    if (n > n0 && n < top) pts.push(n)
+  }
+  for (const n of dips) if (n > n0 && n < top) pts.push(n)
+  pts.push(top)
+  pts.sort((a, b) => a - b)
+  return pts.filter((n, i) => i === 0 || n !== pts[i - 1])
+}
+
+/** Brent's root finder on [a, b] with f(a) > 0 > f(b) (signs may be either way round). */
+export function brent(f: (x: number) => number, a0: number, b0: number, fa0: number, fb0: number, tol: number): number {
+  let a = a0
+  let b = b0
+  let fa = fa0
+  let fb = fb0
+  let c = a
+  let fc = fa
+  let d = b - a
+  let e = d
+  for (let iter = 0; iter < 100; iter++) {
+    if ((fb > 0 && fc > 0) || (fb < 0 && fc < 0)) {
+      c = a
+      fc = fa
+      d = b - a
+      e = d
+    }
+    if (Math.abs(fc) < Math.abs(fb)) {
+      a = b
+      b = c
+      c = a
+      fa = fb
+      fb = fc
+      fc = fa
+    }
+    const tol1 = 2 * Number.EPSILON * Math.abs(b) + 0.5 * tol
+    const xm = 0.5 * (c - b)
+    if (Math.abs(xm) <= tol1 || fb === 0) return b
+    if (Math.abs(e) >= tol1 && Math.abs(fa) > Math.abs(fb)) {
+      const s = fb / fa
+      let p: number
+      let q: number
+      if (a === c) {
+        p = 2 * xm * s
+        q = 1 - s
+      } else {
+        const qq = fa / fc
+        const r = fb / fc
+        p = s * (2 * xm * qq * (qq - r) - (b - a) * (r - 1))
+        q = (qq - 1) * (r - 1) * (s - 1)
+      }
+      if (p > 0) q = -q
+      p = Math.abs(p)
+      const min1 = 3 * xm * q - Math.abs(tol1 * q)
+      const min2 = Math.abs(e * q)
+      if (2 * p < Math.min(min1, min2)) {
+        e = d
+        d = p / q
+      } else {
+        d = xm
+        e = d
+      }
+    } else {
+      d = xm
+      e = d
+    }
+    a = b
+    fa = fb
+    b += Math.abs(d) > tol1 ? d : xm >= 0 ? tol1 : -tol1
+    fb = f(b)
+  }
+  return b
+}
+
+function assertFinite(point: OperatingPoint): void {
+  for (const [key, value] of Object.entries(point)) {
+    if (typeof value === 'number' && !Number.isFinite(value)) {
+      throw new Error(`solveOperatingPoint produced a non-finite ${key}; please report the case`)
+    }
+  }
+}
