@@ -1,7 +1,7 @@
 import { mkdtemp, readdir, rm } from 'node:fs/promises'
 import { tmpdir } from 'node:os'
 import path from 'node:path'
-import nodemailer from 'nodemailer'
+import nodemailer, { type Transporter } from 'nodemailer'
 import { afterEach, beforeEach, describe, expect, it } from 'vitest'
 import { startFakeMail, type FakeMailHandle } from './fake-mail'
 import { safeFileName } from './mail-api'
@@ -19,7 +19,7 @@ afterEach(async () => {
   await rm(dir, { recursive: true, force: true })
 })
 
-function transport(port: number): nodemailer.Transporter {
+function transport(port: number): Transporter {
   return nodemailer.createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true })
 }
 
