@@ -41,7 +41,7 @@ const STYLE = `
 body{margin:0;font:15px/1.45 system-ui,-apple-system,"Segoe UI",sans-serif;background:#eef1ee;color:#1f2a24}
 .test-band{background:repeating-linear-gradient(135deg,#f4c542 0 14px,#1f2a24 14px 28px);height:10px}
 .test-note{background:#fff4cf;border-bottom:1px solid #e2c865;padding:8px 16px;text-align:center;font-weight:600;letter-spacing:.02em}
-main{max-width:760px;margin:28px auto;padding:0 16px;display:grid;grid-template-columns:1fr 1fr;gap:20px}
+main{max-width:760px;margin:28px auto;padding:0 16px;display:grid;grid-template-columns:1fr 1fr;gap:20px;align-items:start}
 @media (max-width:700px){main{grid-template-columns:1fr}}
 section{background:#fff;border:1px solid #cfd8d1;border-radius:10px;padding:20px}
 h1{font-size:19px;margin:0 0 4px}
