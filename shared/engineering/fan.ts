@@ -12,7 +12,8 @@
  * offsetPa / r^2 exceeds the largest g the fan cannot overcome the offset, delivers no air and
  * takes its shut-off power. Where g has several crossings (a stall dip), the operating point is
  * the rightmost one (highest flow), as fan selection practice takes it; a point left of the
- * pressure peak is flagged as in the stall region. Load torque = shaft power / angular speed.
+ * pressure peak (the local peak that heads the falling, stable branch) is flagged as in the stall
+ * region. Load torque = shaft power / angular speed.
  */
 import { EngineeringInputError, requireArray, requireFinite, requireNonNegative, requireObject, requirePositive } from './errors'
 import { Pchip } from './pchip'
@@ -85,15 +86,11 @@ export class PreparedFanLoad {
     this.offset = load.system.offsetPa ?? 0
     this.omegaRef = (load.fan.refRpm * 2 * Math.PI) / 60
 
-    let peak = 0
-    let peakP = -Infinity
-    pts.forEach((p) => {
-      if (p.staticPa >= peakP) {
-        peakP = p.staticPa
-        peak = p.flowM3s
-      }
-    })
-    this.peakFlow = peak
+    // The stable branch runs from free delivery back up to the first local pressure peak met;
+    // flows left of that peak are the stall region (none when pressure only falls with flow).
+    let peakIndex = pts.length - 1
+    while (peakIndex > 0 && (pts[peakIndex - 1]?.staticPa ?? 0) > (pts[peakIndex]?.staticPa ?? 0)) peakIndex--
+    this.peakFlow = pts[peakIndex]?.flowM3s ?? 0
 
     const n = pts.length - 1
     this.g = []
