@@ -26,3 +26,32 @@ export {
   type EngineeringUnit,
   type Quantity,
 } from './units'
+export {
+  toleranceAnalysis,
+  hotResistance,
+  hotMotor,
+  COPPER_CONSTANT,
+  type HotWinding,
+  type ToleranceOptions,
+  type ToleranceCase,
+  type ToleranceCaseName,
+  type ToleranceResult,
+} from './tolerance'
+export { capacitorSweep, balancingCapacitor, balancedAtDuty, type CapacitorRow, type BalancingResult } from './capacitor'
+export {
+  airPowerW,
+  systemEfficiency,
+  breakdownTorque,
+  breakdownMargin,
+  temperatureRiseByResistance,
+  energyCost,
+  dutyFigures,
+  type Breakdown,
+  type BreakdownMargin,
+  type ResistanceRise,
+  type EnergyInput,
+  type EnergyCost,
+  type DutyFigures,
+} from './derived'
+export { INSULATION_CLASSES, insulationClass, insulationMarginK, type InsulationClass } from './insulation'
+export { shadedPoleRotation, efficiencyWarnings, TYPICAL_EFFICIENCY, type MotorType, type Rotation } from './motor-types'
