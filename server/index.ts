@@ -1,0 +1,35 @@
+// Production entry: connects to MariaDB, runs pending migrations, serves API and SPA.
+import 'reflect-metadata'
+import path from 'node:path'
+import type { Server } from 'node:http'
+import { loadConfig } from './config'
+import { createDataSource } from './db/data-source'
+import { createApp } from './app'
+
+export interface RunningServer {
+  server: Server
+  url: string
+  stop(): Promise<void>
+}
+
+export async function startServer(env: NodeJS.ProcessEnv = process.env): Promise<RunningServer> {
+  const config = loadConfig(env)
+  const dataSource = createDataSource(config)
+  await dataSource.initialize()
+  await dataSource.runMigrations({ transaction: 'each' })
+  const handle = createApp({ config, dataSource, clientDir: path.resolve('dist') })
+  const server = await new Promise<Server>((resolve) => {
+    const listening = handle.app.listen(config.PORT, config.HOST, () => resolve(listening))
+  })
+  const url = `http://${config.HOST}:${config.PORT}`
+  return {
+    server,
+    url,
+    stop: async () => {
+      await new Promise<void>((resolve) => server.close(() => resolve()))
+      server.closeAllConnections()
+      handle.close()
+      await dataSource.destroy()
+    },
+  }
+}

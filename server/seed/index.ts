@@ -1,0 +1,26 @@
+// Demo seeding: each step runs once per database (a marker row records it), so a second start
+// keeps whatever users changed since. `npm run db:reset` starts over.
+import type { DataSource, EntityManager } from 'typeorm'
+import { SeedMarker } from '../db/entities'
+import { seedDemoUsers } from './demo-users'
+
+export interface SeedStep {
+  step: string
+  run(manager: EntityManager): Promise<void>
+}
+
+export const SEED_STEPS: SeedStep[] = [{ step: 'demo-users-v1', run: seedDemoUsers }]
+
+export async function seedDemoData(dataSource: DataSource, steps: SeedStep[] = SEED_STEPS): Promise<string[]> {
+  const ran: string[] = []
+  for (const { step, run } of steps) {
+    const done = await dataSource.transaction(async (manager) => {
+      if (await manager.existsBy(SeedMarker, { step })) return false
+      await run(manager)
+      await manager.insert(SeedMarker, { step })
+      return true
+    })
+    if (done) ran.push(step)
+  }
+  return ran
+}
