@@ -126,34 +126,78 @@ export class PreparedCurveMotor implements PreparedMotorBase {
   }
 
   bind(supply: Supply): BoundMotor {
-    const ns = syncRpm(this.poles, supply.hz)
-    const toRated = this.ratedSync / ns
-    const kv = supply.volts / this.source.ratedVolts
-    const kv2 = kv * kv
-    const volts = supply.volts
-    const lastRpm = this.lastRpm
-    const self = this
-    const torque = (rpm: number): number => kv2 * self.ratedTorque(rpm * toRated)
-    return {
-      syncRpm: ns,
-      dipRpms: this.minimaRpm.map((n) => n / toRated),
-      torque,
-      evaluate(rpm: number): MotorEvaluation {
-        const n = rpm * toRated
-        const nc = Math.min(n, lastRpm)
-        const shaftTorqueNm = torque(rpm)
-        const outputW = shaftTorqueNm * radPerSecond(rpm)
-        const result: MotorEvaluation = { rpm, slip: (ns - rpm) / ns, shaftTorqueNm, outputW }
-        if (self.currentCurve) result.currentA = Math.max(0, kv * self.currentCurve.value(nc))
-        if (self.inputCurve) {
-          const inputW = Math.max(0, kv2 * self.inputCurve.value(nc))
-          result.inputW = inputW
-          result.efficiency = inputW > 0 && outputW > 0 ? outputW / inputW : 0
-          if (result.currentA !== undefined && result.currentA > 0) result.powerFactor = inputW / (volts * result.currentA)
-        }
-        if (n > lastRpm) result.extrapolated = true
-        return result
-      },
+    return new BoundCurveMotor(this, supply)
+  }
+
+  /** Torque on the rated curve at a rated-frequency speed. */
+  ratedTorqueAt(n: number): number {
+    return this.ratedTorque(n)
+  }
+
+  get measuredUpToRpm(): number {
+    return this.lastRpm
+  }
+
+  get ratedSyncRpm(): number {
+    return this.ratedSync
+  }
+
+  get minima(): readonly number[] {
+    return this.minimaRpm
+  }
+
+  get current(): Pchip | undefined {
+    return this.currentCurve
+  }
+
+  get input(): Pchip | undefined {
+    return this.inputCurve
+  }
+}
+
+class BoundCurveMotor implements BoundMotor {
+  readonly syncRpm: number
+  readonly dipRpms: readonly number[]
+  private readonly toRated: number
+  private readonly kv: number
+  private readonly kv2: number
+  private readonly volts: number
+
+  constructor(
+    private readonly m: PreparedCurveMotor,
+    supply: Supply,
+  ) {
+    this.syncRpm = syncRpm(m.poles, supply.hz)
+    this.toRated = m.ratedSyncRpm / this.syncRpm
+    this.kv = supply.volts / m.source.ratedVolts
+    this.kv2 = this.kv * this.kv
+    this.volts = supply.volts
+    const minima = m.minima
+    this.dipRpms = minima.length === 0 ? minima : minima.map((n) => n / this.toRated)
+  }
+
+  torque(rpm: number): number {
+    return this.kv2 * this.m.ratedTorqueAt(rpm * this.toRated)
+  }
+
+  evaluate(rpm: number): MotorEvaluation {
+    const ns = this.syncRpm
+    const n = rpm * this.toRated
+    const lastRpm = this.m.measuredUpToRpm
+    const nc = Math.min(n, lastRpm)
+    const shaftTorqueNm = this.torque(rpm)
+    const outputW = shaftTorqueNm * radPerSecond(rpm)
+    const result: MotorEvaluation = { rpm, slip: (ns - rpm) / ns, shaftTorqueNm, outputW }
+    const current = this.m.current
+    const input = this.m.input
+    if (current) result.currentA = Math.max(0, this.kv * current.value(nc))
+    if (input) {
+      const inputW = Math.max(0, this.kv2 * input.value(nc))
+      result.inputW = inputW
+      result.efficiency = inputW > 0 && outputW > 0 ? outputW / inputW : 0
+      if (result.currentA !== undefined && result.currentA > 0) result.powerFactor = inputW / (this.volts * result.currentA)
     }
+    if (n > lastRpm) result.extrapolated = true
+    return result
   }
 }

@@ -37,12 +37,13 @@ export function optionalNonNegative(value: unknown, field: string, fallback: num
   return value === undefined ? fallback : requireNonNegative(value, field)
 }
 
+function isRecord(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null && !Array.isArray(value)
+}
+
 export function requireObject(value: unknown, field: string): Record<string, unknown> {
-  if (typeof value !== 'object' || value === null || Array.isArray(value)) {
-    throw new EngineeringInputError(field, 'must be an object')
-  }
-  // A plain object read as a record of unknown values; every property is checked before use.
-  return Object.fromEntries(Object.entries(value))
+  if (!isRecord(value)) throw new EngineeringInputError(field, 'must be an object')
+  return value
 }
 
 export function requireArray(value: unknown, field: string, minLength: number): unknown[] {

@@ -163,23 +163,29 @@ export class PreparedFanLoad {
     const h = (this.q[lo + 1] ?? 0) - qi
     let a = this.argMaxU[lo] ?? 0
     let b = h
-    if (cubic(gc, b) >= c) return qi + b
-    // g(a) >= c > g(b) and g is decreasing on the part of [a, b] that holds the crossing:
-    // Newton steps kept inside the bracket, bisection when a step leaves it.
-    let u = 0.5 * (a + b)
-    for (let it = 0; it < 60; it++) {
+    let gb = cubic(gc, b) - c
+    if (gb >= 0) return qi + b
+    let ga = cubic(gc, a) - c
+    // g(a) >= c > g(b) and g decreases on the part of [a, b] that holds the crossing: Newton
+    // steps from a secant start, kept inside the shrinking bracket, else bisection.
+    let u = ga > 0 ? a + (b - a) * (ga / (ga - gb)) : a
+    const eps = 1e-12 * h
+    for (let it = 0; it < 50; it++) {
       const v = cubic(gc, u) - c
-      if (v > 0) a = u
-      else b = u
-      if (b - a <= 1e-14 * (qi + h)) break
-      const dv = (gc[1] ?? 0) + u * (2 * (gc[2] ?? 0) + 3 * u * (gc[3] ?? 0))
-      let next = dv !== 0 ? u - v / dv : NaN
-      if (!(next > a && next < b)) next = 0.5 * (a + b)
-      if (Math.abs(next - u) <= 1e-15 * (qi + h)) {
-        u = next
-        break
+      if (v === 0) break
+      if (v > 0) {
+        a = u
+        ga = v
+      } else {
+        b = u
+        gb = v
       }
+      const dv = (gc[1] ?? 0) + u * (2 * (gc[2] ?? 0) + 3 * u * (gc[3] ?? 0))
+      let next = dv < 0 ? u - v / dv : 0.5 * (a + b)
+      if (!(next > a && next < b)) next = 0.5 * (a + b)
+      const step = next - u
       u = next
+      if ((step < 0 ? -step : step) <= eps || b - a <= eps) break
     }
     return qi + u
   }

@@ -69,14 +69,6 @@ export function validateCircuitMotor(input: unknown, field = 'motor'): CircuitMo
   return motor
 }
 
-/** Indices into the scratch array the circuit solve writes. */
-const IM_RE = 0
-const IM_IM = 1
-const IA_RE = 2
-const IA_IM = 3
-const PGF = 4
-const PGB = 5
-
 export class PreparedCircuitMotor implements PreparedMotorBase {
   readonly prepared = 'motor'
   readonly poles: number
@@ -88,144 +80,168 @@ export class PreparedCircuitMotor implements PreparedMotorBase {
   }
 
   bind(supply: Supply): BoundMotor {
-    const m = this.source
-    const ns = syncRpm(m.poles, supply.hz)
-    const ws = (ns * 2 * Math.PI) / 60
-    const wk = FIXED_LOSS_KNEE * ws
+    return new BoundCircuitMotor(this.source, supply)
+  }
+}
+
+/** The circuit on one supply: reactances scaled, constants ready, a scratch solution kept. */
+class BoundCircuitMotor implements BoundMotor {
+  readonly syncRpm: number
+  readonly dipRpms: readonly number[] = []
+  private readonly ws: number
+  private readonly wk: number
+  private readonly V: number
+  private readonly R1: number
+  private readonly X1: number
+  private readonly R2: number
+  private readonly X2: number
+  private readonly Xm: number
+  private readonly pFixed: number
+  private readonly hasAux: boolean
+  private readonly a: number
+  private readonly Ra: number
+  /** Aux winding reactance less the capacitor's. */
+  private readonly Xa: number
+  // Solution at the last slip: winding currents and air-gap powers.
+  private imr = 0
+  private imi = 0
+  private iar = 0
+  private iai = 0
+  private pgf = 0
+  private pgb = 0
+
+  constructor(m: CircuitMotor, supply: Supply) {
+    this.syncRpm = syncRpm(m.poles, supply.hz)
+    this.ws = (this.syncRpm * 2 * Math.PI) / 60
+    this.wk = FIXED_LOSS_KNEE * this.ws
     const fr = supply.hz / m.ratedHz
-    const V = supply.volts
-    const R1 = m.r1
-    const X1 = m.x1 * fr
-    const R2 = m.r2
-    const X2 = m.x2 * fr
-    const Xm = m.xm * fr
-    const pFixed = (m.coreLossW ?? 0) + (m.frictionW ?? 0)
+    this.V = supply.volts
+    this.R1 = m.r1
+    this.X1 = m.x1 * fr
+    this.R2 = m.r2
+    this.X2 = m.x2 * fr
+    this.Xm = m.xm * fr
+    this.pFixed = (m.coreLossW ?? 0) + (m.frictionW ?? 0)
     const aux = m.aux
-    const a = aux?.turnsRatio ?? 0
-    const Ra = aux?.r ?? 0
-    const Xa = aux ? aux.x * fr - 1e6 / (2 * Math.PI * supply.hz * aux.capacitorUf) : 0
-    const out = new Float64Array(6)
+    this.hasAux = aux !== undefined
+    this.a = aux?.turnsRatio ?? 0
+    this.Ra = aux?.r ?? 0
+    this.Xa = aux ? aux.x * fr - 1e6 / (2 * Math.PI * supply.hz * aux.capacitorUf) : 0
+  }
 
-    /** Fills `out` with the winding currents and air-gap powers at slip s. */
-    const solve = (s: number): void => {
-      // Half of jXm || (R2/s + jX2), written as jXm (R2 + j s X2) / (R2 + j s (X2 + Xm)) so s = 0 is fine.
-      let nr = -Xm * s * X2
-      let ni = Xm * R2
-      let dr = R2
-      let di = s * (X2 + Xm)
-      let dd = 2 * (dr * dr + di * di)
-      const rf = (nr * dr + ni * di) / dd
-      const xf = (ni * dr - nr * di) / dd
-      const sb = 2 - s
-      nr = -Xm * sb * X2
-      di = sb * (X2 + Xm)
-      dd = 2 * (dr * dr + di * di)
-      const rb = (nr * dr + ni * di) / dd
-      const xb = (ni * dr - nr * di) / dd
-      const ar = R1 + rf + rb
-      const ai = X1 + xf + xb
-      if (aux === undefined) {
-        const den = ar * ar + ai * ai
-        out[IM_RE] = (V * ar) / den
-        out[IM_IM] = (-V * ai) / den
-        out[IA_RE] = 0
-        out[IA_IM] = 0
-        const i2 = (V * V) / den
-        out[PGF] = i2 * rf
-        out[PGB] = i2 * rb
-        return
-      }
-      // B = -j a (Z_f - Z_b); D = Z_a + a^2 (Z_f + Z_b)
-      const br = a * (xf - xb)
-      const bi = -a * (rf - rb)
-      const a2 = a * a
-      const Dr = Ra + a2 * (rf + rb)
-      const Di = Xa + a2 * (xf + xb)
-      // det = A D + B^2
-      const detr = ar * Dr - ai * Di + br * br - bi * bi
-      const deti = ar * Di + ai * Dr + 2 * br * bi
-      const detm = detr * detr + deti * deti
-      // I_m = V (D - B) / det, I_a = V (A + B) / det
-      const pr = Dr - br
-      const pi = Di - bi
-      const imr = (V * (pr * detr + pi * deti)) / detm
-      const imi = (V * (pi * detr - pr * deti)) / detm
-      const qr = ar + br
-      const qi = ai + bi
-      const iar = (V * (qr * detr + qi * deti)) / detm
-      const iai = (V * (qi * detr - qr * deti)) / detm
-      out[IM_RE] = imr
-      out[IM_IM] = imi
-      out[IA_RE] = iar
-      out[IA_IM] = iai
-      // I_f = (I_m - j a I_a)/2, I_b = (I_m + j a I_a)/2
-      const ifr = 0.5 * (imr + a * iai)
-      const ifi = 0.5 * (imi - a * iar)
-      const ibr = 0.5 * (imr - a * iai)
-      const ibi = 0.5 * (imi + a * iar)
-      out[PGF] = 4 * (ifr * ifr + ifi * ifi) * rf
-      out[PGB] = 4 * (ibr * ibr + ibi * ibi) * rb
+  /** Solves the circuit at slip s into the scratch fields. */
+  private solve(s: number): void {
+    const { Xm, X2, R2, V } = this
+    // Half of jXm || (R2/s + jX2), written as jXm (R2 + j s X2) / (R2 + j s (X2 + Xm)) so s = 0 is fine.
+    let nr = -Xm * s * X2
+    const ni = Xm * R2
+    const dr = R2
+    let di = s * (X2 + Xm)
+    let dd = 2 * (dr * dr + di * di)
+    const rf = (nr * dr + ni * di) / dd
+    const xf = (ni * dr - nr * di) / dd
+    const sb = 2 - s
+    nr = -Xm * sb * X2
+    di = sb * (X2 + Xm)
+    dd = 2 * (dr * dr + di * di)
+    const rb = (nr * dr + ni * di) / dd
+    const xb = (ni * dr - nr * di) / dd
+    const ar = this.R1 + rf + rb
+    const ai = this.X1 + xf + xb
+    if (!this.hasAux) {
+      const den = ar * ar + ai * ai
+      this.imr = (V * ar) / den
+      this.imi = (-V * ai) / den
+      this.iar = 0
+      this.iai = 0
+      const i2 = (V * V) / den
+      this.pgf = i2 * rf
+      this.pgb = i2 * rb
+      return
     }
+    const a = this.a
+    // B = -j a (Z_f - Z_b); D = Z_a + a^2 (Z_f + Z_b)
+    const br = a * (xf - xb)
+    const bi = -a * (rf - rb)
+    const a2 = a * a
+    const Dr = this.Ra + a2 * (rf + rb)
+    const Di = this.Xa + a2 * (xf + xb)
+    // det = A D + B^2
+    const detr = ar * Dr - ai * Di + br * br - bi * bi
+    const deti = ar * Di + ai * Dr + 2 * br * bi
+    const detm = detr * detr + deti * deti
+    // I_m = V (D - B) / det, I_a = V (A + B) / det
+    const pr = Dr - br
+    const pi = Di - bi
+    const imr = (V * (pr * detr + pi * deti)) / detm
+    const imi = (V * (pi * detr - pr * deti)) / detm
+    const qr = ar + br
+    const qi = ai + bi
+    const iar = (V * (qr * detr + qi * deti)) / detm
+    const iai = (V * (qi * detr - qr * deti)) / detm
+    this.imr = imr
+    this.imi = imi
+    this.iar = iar
+    this.iai = iai
+    // I_f = (I_m - j a I_a)/2, I_b = (I_m + j a I_a)/2
+    const ifr = 0.5 * (imr + a * iai)
+    const ifi = 0.5 * (imi - a * iar)
+    const ibr = 0.5 * (imr - a * iai)
+    const ibi = 0.5 * (imi + a * iar)
+    this.pgf = 4 * (ifr * ifr + ifi * ifi) * rf
+    this.pgb = 4 * (ibr * ibr + ibi * ibi) * rb
+  }
 
-    const lossTorque = (w: number): number => (pFixed === 0 ? 0 : w >= wk ? pFixed / w : (pFixed * w) / (wk * wk))
+  private lossTorque(w: number): number {
+    const p = this.pFixed
+    if (p === 0) return 0
+    return w >= this.wk ? p / w : (p * w) / (this.wk * this.wk)
+  }
 
-    const torque = (rpm: number): number => {
-      solve((ns - rpm) / ns)
-      return ((out[PGF] ?? 0) - (out[PGB] ?? 0)) / ws - lossTorque((rpm * 2 * Math.PI) / 60)
+  torque(rpm: number): number {
+    this.solve((this.syncRpm - rpm) / this.syncRpm)
+    return (this.pgf - this.pgb) / this.ws - this.lossTorque((rpm * 2 * Math.PI) / 60)
+  }
+
+  evaluate(rpm: number): MotorEvaluation {
+    const ns = this.syncRpm
+    const s = (ns - rpm) / ns
+    this.solve(s)
+    const { V, pgf, pgb, imr, imi, iar, iai, a } = this
+    const w = (rpm * 2 * Math.PI) / 60
+    const airGapTorqueNm = (pgf - pgb) / this.ws
+    const shaftTorqueNm = airGapTorqueNm - this.lossTorque(w)
+    const lr = imr + iar
+    const li = imi + iai
+    const currentA = Math.hypot(lr, li)
+    const inputW = V * lr
+    const outputW = shaftTorqueNm * w
+    const mainCurrentA = Math.hypot(imr, imi)
+    const auxCurrentA = Math.hypot(iar, iai)
+    const result: MotorEvaluation = {
+      rpm,
+      slip: s,
+      shaftTorqueNm,
+      airGapTorqueNm,
+      currentA,
+      powerFactor: currentA > 0 ? inputW / (V * currentA) : 0,
+      inputW,
+      outputW,
+      efficiency: inputW > 0 && outputW > 0 ? outputW / inputW : 0,
+      forwardAirGapW: pgf,
+      backwardAirGapW: pgb,
+      statorCopperW: this.R1 * mainCurrentA * mainCurrentA + this.Ra * auxCurrentA * auxCurrentA,
+      rotorCopperW: s * pgf + (2 - s) * pgb,
+      mainCurrentA,
     }
-
-    return {
-      syncRpm: ns,
-      dipRpms: [],
-      torque,
-      evaluate(rpm: number): MotorEvaluation {
-        const s = (ns - rpm) / ns
-        solve(s)
-        const w = (rpm * 2 * Math.PI) / 60
-        const pgf = out[PGF] ?? 0
-        const pgb = out[PGB] ?? 0
-        const airGapTorqueNm = (pgf - pgb) / ws
-        const shaftTorqueNm = airGapTorqueNm - lossTorque(w)
-        const imr = out[IM_RE] ?? 0
-        const imi = out[IM_IM] ?? 0
-        const iar = out[IA_RE] ?? 0
-        const iai = out[IA_IM] ?? 0
-        const lr = imr + iar
-        const li = imi + iai
-        const currentA = Math.hypot(lr, li)
-        const inputW = V * lr
-        const outputW = shaftTorqueNm * w
-        const mainCurrentA = Math.hypot(imr, imi)
-        const auxCurrentA = Math.hypot(iar, iai)
-        const result: MotorEvaluation = {
-          rpm,
-          slip: s,
-          shaftTorqueNm,
-          airGapTorqueNm,
-          currentA,
-          powerFactor: currentA > 0 ? inputW / (V * currentA) : 0,
-          inputW,
-          outputW,
-          efficiency: inputW > 0 && outputW > 0 ? outputW / inputW : 0,
-          forwardAirGapW: pgf,
-          backwardAirGapW: pgb,
-          statorCopperW: R1 * mainCurrentA * mainCurrentA + Ra * auxCurrentA * auxCurrentA,
-          rotorCopperW: s * pgf + (2 - s) * pgb,
-          mainCurrentA,
-        }
-        if (aux) {
-          result.auxCurrentA = auxCurrentA
-          const ifr = 0.5 * (imr + a * iai)
-          const ifi = 0.5 * (imi - a * iar)
-          const ibr = 0.5 * (imr - a * iai)
-          const ibi = 0.5 * (imi + a * iar)
-          const fm = Math.hypot(ifr, ifi)
-          result.unbalance = fm > 0 ? Math.hypot(ibr, ibi) / fm : 0
-        } else {
-          result.unbalance = 1
-        }
-        return result
-      },
+    if (this.hasAux) {
+      result.auxCurrentA = auxCurrentA
+      const fm = Math.hypot(0.5 * (imr + a * iai), 0.5 * (imi - a * iar))
+      const bm = Math.hypot(0.5 * (imr - a * iai), 0.5 * (imi + a * iar))
+      result.unbalance = fm > 0 ? bm / fm : 0
+    } else {
+      result.unbalance = 1
     }
+    return result
   }
 }

@@ -15,7 +15,7 @@
  */
 import { EngineeringInputError, requireFinite, requireObject, requirePositive } from './errors'
 import { isPreparedLoad, prepareLoad, type PreparedLoad } from './load'
-import { isPreparedMotor, prepareMotor, type PreparedMotor } from './motor'
+import { isPreparedMotor, prepareMotor, type BoundMotor, type PreparedMotor } from './motor'
 import { validateSupply } from './speed'
 import type { Load, MotorModel, OperatingPoint, SolveOptions, Supply } from './types'
 
@@ -35,6 +35,20 @@ export function validateSolveOptions(input: unknown, field = 'options'): SolveOp
   return out
 }
 
+/** Net accelerating torque T_motor - T_load, counting motor evaluations. */
+class NetTorque {
+  evaluations = 0
+  constructor(
+    readonly motor: BoundMotor,
+    readonly load: PreparedLoad,
+  ) {}
+
+  at(n: number): number {
+    this.evaluations++
+    return this.motor.torque(n) - this.load.torque(n)
+  }
+}
+
 /**
  * Solve the steady operating point. Accepts raw inputs (validated here, errors name the field) or
  * the results of prepareMotor / prepareLoad (validated once; the fast path for repeated solves).
@@ -48,24 +62,18 @@ export function solveOperatingPoint(
   const pm = isPreparedMotor(motor) ? motor : prepareMotor(motor, 'motor')
   const pl = isPreparedLoad(load) ? load : prepareLoad(load, 'load')
   const sup = validateSupply(supply)
-  const opts = validateSolveOptions(options)
+  const opts = options === undefined ? undefined : validateSolveOptions(options)
   const bm = pm.bind(sup)
   const ns = bm.syncRpm
-  const n0 = opts.startRpm ?? 0
+  const n0 = opts?.startRpm ?? 0
   if (n0 >= ns) throw new EngineeringInputError('options.startRpm', `must be below synchronous speed ${ns} r/min`)
-  const tol = opts.tolRpm ?? 1e-6 * ns
-  let evaluations = 0
-  const f = (n: number): number => {
-    evaluations++
-    return bm.torque(n) - pl.torque(n)
-  }
+  const tol = opts?.tolRpm ?? 1e-6 * ns
+  const net = new NetTorque(bm, pl)
 
   const tm0 = bm.torque(n0)
   const tl0 = pl.torque(n0)
-  evaluations++
-  if (!(tm0 > tl0)) {
-    return finish('no-start', n0, false)
-  }
+  net.evaluations++
+  if (!(tm0 > tl0)) return finish(net, 'no-start', n0, false, tm0, tl0)
 
   const grid = scanGrid(ns, n0, bm.dipRpms, pl.maxRpm)
   let lo = n0
@@ -75,7 +83,7 @@ export function solveOperatingPoint(
   let next = grid.length
   for (let i = 0; i < grid.length; i++) {
     const n = grid[i] ?? ns
-    const fn = f(n)
+    const fn = net.at(n)
     if (fn <= 0) {
       hi = n
       fhi = fn
@@ -92,67 +100,79 @@ export function solveOperatingPoint(
     }
     throw new Error('solveOperatingPoint: motor torque exceeds load torque up to synchronous speed')
   }
-  const root = fhi === 0 ? hi : brent(f, lo, hi, flo, fhi, tol)
+  const root = fhi === 0 ? hi : brent(net, lo, hi, flo, fhi, tol)
 
   let crawl = false
   for (let i = next; i < grid.length; i++) {
     const n = grid[i] ?? ns
     if (n <= root) continue
-    if (f(n) > 0) {
+    if (net.at(n) > 0) {
       crawl = true
       break
     }
   }
-  return finish('running', root, crawl)
-
-  function finish(status: OperatingPoint['status'], rpm: number, crawl: boolean): OperatingPoint {
-    const me = bm.evaluate(rpm)
-    evaluations++
-    const le = pl.evaluate(rpm)
-    const point: OperatingPoint = {
-      status,
-      rpm,
-      slip: me.slip,
-      syncRpm: ns,
-      shaftTorqueNm: me.shaftTorqueNm,
-      loadTorqueNm: le.torqueNm,
-      outputW: status === 'running' ? (me.outputW ?? 0) : 0,
-      crawl,
-      extrapolated: Boolean(me.extrapolated || le.extrapolated),
-      startingTorqueNm: tm0,
-      loadStartingTorqueNm: tl0,
-      evaluations,
-    }
-    if (me.airGapTorqueNm !== undefined) point.airGapTorqueNm = me.airGapTorqueNm
-    if (me.currentA !== undefined) point.currentA = me.currentA
-    if (me.powerFactor !== undefined) point.powerFactor = me.powerFactor
-    if (me.inputW !== undefined) point.inputW = me.inputW
-    if (me.efficiency !== undefined) point.efficiency = status === 'running' ? me.efficiency : 0
-    if (le.flowM3s !== undefined) point.flowM3s = le.flowM3s
-    if (le.staticPa !== undefined) point.staticPa = le.staticPa
-    if (le.flowM3s !== undefined) point.fanShaftW = le.shaftW
-    if (le.fanStall !== undefined) point.fanStall = le.fanStall
-    if (le.fanNoFlow !== undefined) point.fanNoFlow = le.fanNoFlow
-    assertFinite(point)
-    return point
-  }
+  return finish(net, 'running', root, crawl, tm0, tl0)
 }
 
-function scanGrid(ns: number, n0: number, dips: readonly number[], maxRpm: number): number[] {
-  const top = Math.min(ns, maxRpm)
-  const pts: number[] = []
-  for (const s of SLIP_GRID) {
-    const n = ns * (1 - s)
-    if (n > n0 && n < top) pts.push(n)
+function finish(net: NetTorque, status: OperatingPoint['status'], rpm: number, crawl: boolean, tm0: number, tl0: number): OperatingPoint {
+  const me = net.motor.evaluate(rpm)
+  net.evaluations++
+  const le = net.load.evaluate(rpm)
+  const running = status === 'running'
+  const point: OperatingPoint = {
+    status,
+    rpm,
+    slip: me.slip,
+    syncRpm: net.motor.syncRpm,
+    shaftTorqueNm: me.shaftTorqueNm,
+    loadTorqueNm: le.torqueNm,
+    outputW: running ? (me.outputW ?? 0) : 0,
+    crawl,
+    extrapolated: Boolean(me.extrapolated || le.extrapolated),
+    startingTorqueNm: tm0,
+    loadStartingTorqueNm: tl0,
+    evaluations: net.evaluations,
   }
-  for (const n of dips) if (n > n0 && n < top) pts.push(n)
+  if (me.airGapTorqueNm !== undefined) point.airGapTorqueNm = me.airGapTorqueNm
+  if (me.currentA !== undefined) point.currentA = me.currentA
+  if (me.powerFactor !== undefined) point.powerFactor = me.powerFactor
+  if (me.inputW !== undefined) point.inputW = me.inputW
+  if (me.efficiency !== undefined) point.efficiency = running ? me.efficiency : 0
+  if (le.flowM3s !== undefined) {
+    point.flowM3s = le.flowM3s
+    point.fanShaftW = le.shaftW
+  }
+  if (le.staticPa !== undefined) point.staticPa = le.staticPa
+  if (le.fanStall !== undefined) point.fanStall = le.fanStall
+  if (le.fanNoFlow !== undefined) point.fanNoFlow = le.fanNoFlow
+  assertFinite(point)
+  return point
+}
+
+/** Scan speeds above n0: the slip grid merged with the dip knots, ending at min(n_s, maxRpm). */
+function scanGrid(ns: number, n0: number, dips: readonly number[], maxRpm: number): number[] {
+  const top = maxRpm < ns ? maxRpm : ns
+  const pts: number[] = []
+  let j = 0
+  for (let k = 0; k <= SLIP_GRID.length; k++) {
+    const slip = SLIP_GRID[k]
+    const g = slip === undefined ? Infinity : ns * (1 - slip)
+    // Merge the (sorted) dip knots below this grid speed, then the grid speed itself.
+    for (;;) {
+      const d = j < dips.length ? (dips[j] ?? Infinity) : Infinity
+      const n = d <= g ? d : g
+      if (n === Infinity) break
+      if (d <= g) j++
+      if (n > n0 && n < top && n !== pts[pts.length - 1]) pts.push(n)
+      if (n === g) break
+    }
+  }
   pts.push(top)
-  pts.sort((a, b) => a - b)
-  return pts.filter((n, i) => i === 0 || n !== pts[i - 1])
+  return pts
 }
 
 /** Brent's root finder on [a, b] with f(a) > 0 > f(b) (signs may be either way round). */
-export function brent(f: (x: number) => number, a0: number, b0: number, fa0: number, fb0: number, tol: number): number {
+export function brent(f: { at(x: number): number }, a0: number, b0: number, fa0: number, fb0: number, tol: number): number {
   let a = a0
   let b = b0
   let fa = fa0
@@ -210,15 +230,19 @@ export function brent(f: (x: number) => number, a0: number, b0: number, fa0: num
     a = b
     fa = fb
     b += Math.abs(d) > tol1 ? d : xm >= 0 ? tol1 : -tol1
-    fb = f(b)
+    fb = f.at(b)
   }
   return b
 }
 
-function assertFinite(point: OperatingPoint): void {
-  for (const [key, value] of Object.entries(point)) {
-    if (typeof value === 'number' && !Number.isFinite(value)) {
-      throw new Error(`solveOperatingPoint produced a non-finite ${key}; please report the case`)
+function assertFinite(p: OperatingPoint): void {
+  const values = [
+    p.rpm, p.slip, p.shaftTorqueNm, p.loadTorqueNm, p.outputW, p.startingTorqueNm, p.loadStartingTorqueNm, p.airGapTorqueNm,
+    p.currentA, p.powerFactor, p.inputW, p.efficiency, p.flowM3s, p.staticPa, p.fanShaftW,
+  ]
+  for (const v of values) {
+    if (v !== undefined && !Number.isFinite(v)) {
+      throw new Error(`solveOperatingPoint produced a non-finite figure (${JSON.stringify(p)}); please report the case`)
     }
   }
 }
