@@ -1,10 +1,30 @@
 import { AuditEntry } from './audit-entry.entity'
+import { CatalogueRevision } from './catalogue-revision.entity'
+import { DemoFan } from './demo-fan.entity'
+import { DutyStudy } from './duty-study.entity'
+import { MotorFamily } from './motor-family.entity'
+import { MotorPerformance } from './motor-performance.entity'
+import { MotorVariant } from './motor-variant.entity'
 import { Organisation } from './organisation.entity'
 import { SeedMarker } from './seed-marker.entity'
 import { SessionRecord } from './session-record.entity'
+import { StudyRun } from './study-run.entity'
 import { User } from './user.entity'
 
-export { AuditEntry, Organisation, SeedMarker, SessionRecord, User }
+export { AuditEntry, CatalogueRevision, DemoFan, DutyStudy, MotorFamily, MotorPerformance, MotorVariant, Organisation, SeedMarker, SessionRecord, StudyRun, User }
 
 /** Every entity, listed explicitly so nothing depends on a file glob matching compiled output. */
-export const entities = [Organisation, User, SessionRecord, AuditEntry, SeedMarker]
+export const entities = [
+  Organisation,
+  User,
+  SessionRecord,
+  AuditEntry,
+  SeedMarker,
+  MotorFamily,
+  MotorVariant,
+  MotorPerformance,
+  DemoFan,
+  CatalogueRevision,
+  DutyStudy,
+  StudyRun,
+]
