@@ -55,6 +55,11 @@ export class PreparedFanLoad {
   readonly source: FanLoad
   /** Above this speed the system curve would meet the fan beyond its last tabulated flow. */
   readonly maxRpm: number
+  /**
+   * Speeds where the load torque jumps: with an offset and a pressure hump, the fan breaks through
+   * from no flow to a flow right of the hump at one speed. The solver visits each from both sides.
+   */
+  readonly jumpRpms: readonly number[]
   /** Flow on the reference curve at the pressure peak; less flow than this is the stall region. */
   readonly peakFlow: number
   private readonly field: string
@@ -137,6 +142,9 @@ export class PreparedFanLoad {
       this.q0 = 0
     }
     this.torqueFactor = (this.d * this.power.value(this.q0)) / this.omegaRef
+    const gMax = this.suffixMax[0] ?? 0
+    const breakFlow = this.offset > 0 && gMax > 0 ? this.referenceFlow(gMax) : 0
+    this.jumpRpms = breakFlow > 0 ? [Math.sqrt(this.offset / gMax) * load.fan.refRpm] : []
   }
 
   private gAt(i: number, u: number): number {

@@ -31,6 +31,7 @@ export class PreparedTorqueLoad {
   readonly prepared = 'load'
   readonly source: TorqueLoad
   readonly maxRpm = Infinity
+  readonly jumpRpms: readonly number[] = []
   private readonly curve: Pchip
   private readonly lastRpm: number
   private readonly lastTorque: number

@@ -84,6 +84,19 @@ describe('operating point', () => {
     )
   })
 
+  it('stops a fan at the speed where it would break through its system offset, flagged as a load jump', () => {
+    // Fan laws: flow starts once r^2 x 230 Pa x (rho/rho_ref) exceeds the offset; the blower's hump
+    // makes the torque jump there. This case (found by the property test below) once cost 35
+    // evaluations; the jump speed is now visited from both sides.
+    const load: FanLoad = { ...blowerFan, system: { k: 0, offsetPa: 67.51 }, density: 0.7426 }
+    const p = solveOperatingPoint(shadedPoleCurve, load, { volts: 155.2, hz: 50 })
+    expect(p.loadJump).toBe(true)
+    expect(p.fanStall).toBe(true)
+    expect(p.evaluations).toBeLessThanOrEqual(25)
+    const jump = prepareLoad(load).jumpRpms[0] ?? 0
+    expect(p.rpm).toBeCloseTo(jump, 3)
+  })
+
   it('gives the same answer for raw and prepared inputs', () => {
     const raw = solveOperatingPoint(pscCircuit, blowerFan, mains)
     const prepared = solveOperatingPoint(prepareMotor(pscCircuit), prepareLoad(blowerFan), mains)

@@ -75,7 +75,7 @@ export function solveOperatingPoint(
   net.evaluations++
   if (!(tm0 > tl0)) return finish(net, 'no-start', n0, false, tm0, tl0)
 
-  const grid = scanGrid(ns, n0, bm.dipRpms, pl.maxRpm)
+  const grid = scanGrid(ns, n0, bm.dipRpms, pl.maxRpm, pl.jumpRpms)
   let lo = n0
   let flo = tm0 - tl0
   let hi = -1
@@ -101,6 +101,7 @@ export function solveOperatingPoint(
     throw new Error('solveOperatingPoint: motor torque exceeds load torque up to synchronous speed')
   }
   const root = fhi === 0 ? hi : brent(net, lo, hi, flo, fhi, tol)
+  const onJump = pl.jumpRpms.some((n) => lo >= n * (1 - 2e-9) && hi <= n * (1 + 2e-9))
 
   let crawl = false
   for (let i = next; i < grid.length; i++) {
@@ -111,10 +112,10 @@ export function solveOperatingPoint(
       break
     }
   }
-  return finish(net, 'running', root, crawl, tm0, tl0)
+  return finish(net, 'running', root, crawl, tm0, tl0, onJump)
 }
 
-function finish(net: NetTorque, status: OperatingPoint['status'], rpm: number, crawl: boolean, tm0: number, tl0: number): OperatingPoint {
+function finish(net: NetTorque, status: OperatingPoint['status'], rpm: number, crawl: boolean, tm0: number, tl0: number, onJump = false): OperatingPoint {
   const me = net.motor.evaluate(rpm)
   net.evaluations++
   const le = net.load.evaluate(rpm)
@@ -145,13 +146,21 @@ function finish(net: NetTorque, status: OperatingPoint['status'], rpm: number, c
   if (le.staticPa !== undefined) point.staticPa = le.staticPa
   if (le.fanStall !== undefined) point.fanStall = le.fanStall
   if (le.fanNoFlow !== undefined) point.fanNoFlow = le.fanNoFlow
+  if (onJump) point.loadJump = true
   assertFinite(point)
   return point
 }
 
 /** Scan speeds above n0: the slip grid merged with the dip knots, ending at min(n_s, maxRpm). */
-function scanGrid(ns: number, n0: number, dips: readonly number[], maxRpm: number): number[] {
+function scanGrid(ns: number, n0: number, motorDips: readonly number[], maxRpm: number, jumps: readonly number[]): number[] {
   const top = maxRpm < ns ? maxRpm : ns
+  let dips = motorDips
+  if (jumps.length > 0) {
+    // Both sides of a jump in load torque, so a point on the jump is bracketed tightly.
+    const merged = [...motorDips]
+    for (const n of jumps) merged.push(n * (1 - 1e-9), n * (1 + 1e-9))
+    dips = merged.sort((a, b) => a - b)
+  }
   const pts: number[] = []
   let j = 0
   for (let k = 0; k <= SLIP_GRID.length; k++) {

@@ -179,6 +179,11 @@ export interface OperatingPoint {
    * (a crawl, e.g. a shaded-pole motor in its third-harmonic dip).
    */
   crawl: boolean
+  /**
+   * The point sits on a jump in load torque: a fan at the speed where it breaks through its
+   * system's offset pressure. Motor and load torque differ there; expect hunting in service.
+   */
+  loadJump?: boolean
   /** Motor curve or load table used beyond its last point. */
   extrapolated: boolean
   /** Motor and load torque at the start speed. */
