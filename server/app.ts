@@ -13,6 +13,10 @@ import type { ApiRouter, RouteEntry } from './http/api-router'
 import { apiNotFound, errorHandler } from './http/error-handler'
 import { adminUserRoutes } from './routes/admin-users.routes'
 import { authRoutes } from './routes/auth.routes'
+import { catalogueRoutes } from './routes/catalogue.routes'
+import { studyRoutes } from './routes/study.routes'
+import { CatalogueService } from './services/catalogue.service'
+import { StudyService } from './services/study.service'
 import { healthRoutes } from './routes/health.routes'
 import { UserService } from './services/user.service'
 
@@ -26,6 +30,7 @@ export interface AppDeps {
 
 export interface AppHandle {
   app: Express
+  services: { catalogue: CatalogueService; studies: StudyService }
   routes: RouteEntry[]
   sessionStore: TypeormSessionStore
   close(): void
@@ -63,6 +68,8 @@ export function createApp({ config, dataSource, clientDir, log = console.error }
   )
 
   const users = new UserService(dataSource)
+  const catalogue = new CatalogueService(dataSource)
+  const studies = new StudyService(dataSource, catalogue)
   const passport = createPassport(users)
   const sessionStore = new TypeormSessionStore(dataSource)
   const api = express.Router()
@@ -98,6 +105,8 @@ export function createApp({ config, dataSource, clientDir, log = console.error }
       },
     }),
     adminUserRoutes(dataSource),
+    catalogueRoutes(catalogue),
+    studyRoutes(studies),
   ]
   for (const router of routers) api.use(router.prefix || '/', router.router)
   api.use(apiNotFound)
@@ -116,6 +125,7 @@ export function createApp({ config, dataSource, clientDir, log = console.error }
 
   return {
     app,
+    services: { catalogue, studies },
     routes: routers.flatMap((router) => router.routes.map((route) => ({ ...route, path: `/api${route.path}` }))),
     sessionStore,
     close: () => sessionStore.close(),

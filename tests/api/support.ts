@@ -39,7 +39,7 @@ export async function startTestApp(overrides: NodeJS.ProcessEnv = {}): Promise<T
   const config = testConfig(overrides)
   const dataSource = createDataSource(config)
   await dataSource.initialize()
-  const handle = createApp({ config, dataSource, log: () => undefined })
+  const handle = createApp({ config, dataSource, log: (error) => console.error('[app error]', error) })
   return {
     config,
     dataSource,

@@ -1,0 +1,263 @@
+import type { DataSource, EntityManager } from 'typeorm'
+import type { Page } from '../../shared/contracts/admin.contract'
+import type {
+  CatalogueFacets,
+  DemoFan as DemoFanDto,
+  InsulationClassCode,
+  VariantDetail,
+  VariantListQuery,
+  VariantRow,
+} from '../../shared/contracts/catalogue.contract'
+import { preparePerformance, type CatalogueEntry } from '../../shared/selection/run-selection'
+import { CatalogueRevision, DemoFan, MotorPerformance, MotorVariant } from '../db/entities'
+import { NotFoundError } from '../http/errors'
+
+function escapeLike(term: string): string {
+  return term.replace(/[\\%_]/g, '\\$&')
+}
+
+export function toVariantRow(variant: MotorVariant): VariantRow {
+  return {
+    id: variant.id,
+    partNumber: variant.partNumber,
+    name: variant.name,
+    familyCode: variant.family.code,
+    familyName: variant.family.name,
+    type: variant.type,
+    poles: variant.poles,
+    ratedVolts: variant.ratedVolts,
+    ratedHz: variant.ratedHz,
+    dualFrequency: variant.dualFrequency,
+    ratedOutputW: variant.ratedOutputW,
+    ratedRpm: variant.ratedRpm,
+    ratedInputW: variant.ratedInputW,
+    ratedCurrentA: variant.ratedCurrentA,
+    frameDiameterMm: variant.frameDiameterMm,
+    insulationClass: insulationCode(variant.insulationClass),
+    protection: protectionCode(variant.protection),
+    lifecycle: variant.lifecycle,
+    speedTaps: variant.speedTaps,
+  }
+}
+
+function insulationCode(value: string): InsulationClassCode {
+  switch (value) {
+    case 'A':
+    case 'E':
+    case 'B':
+    case 'F':
+    case 'H':
+      return value
+    default:
+      throw new Error(`unknown insulation class ${value} in the catalogue`)
+  }
+}
+
+function protectionCode(value: string): VariantRow['protection'] {
+  switch (value) {
+    case 'impedance':
+    case 'auto-reset':
+    case 'manual-reset':
+    case 'none':
+      return value
+    default:
+      throw new Error(`unknown protection ${value} in the catalogue`)
+  }
+}
+
+/** Raises the catalogue revision inside the caller's transaction; caches elsewhere see it on their next run. */
+export async function bumpCatalogueRevision(manager: EntityManager): Promise<void> {
+  await manager.increment(CatalogueRevision, { id: 1 }, 'revision', 1)
+}
+
+export class CatalogueService {
+  private cache: { revision: number; entries: CatalogueEntry[]; byVariant: Map<string, CatalogueEntry> } | undefined
+  private loading: Promise<{ revision: number; entries: CatalogueEntry[] }> | undefined
+
+  constructor(private readonly dataSource: DataSource) {}
+
+  async listVariants(query: VariantListQuery): Promise<Page<VariantRow>> {
+    const builder = this.dataSource
+      .getRepository(MotorVariant)
+      .createQueryBuilder('variant')
+      .innerJoinAndSelect('variant.family', 'family')
+    if (query.search) {
+      const words = query.search.split(/\s+/).filter(Boolean).slice(0, 6)
+      words.forEach((word, index) => builder.andWhere(`variant.searchText LIKE :w${index}`, { [`w${index}`]: `%${escapeLike(word)}%` }))
+    }
+    if (query.type?.length) builder.andWhere('variant.type IN (:...types)', { types: query.type })
+    if (query.poles?.length) builder.andWhere('variant.poles IN (:...poles)', { poles: query.poles })
+    if (query.supply?.length) {
+      const clauses = query.supply.map((supply, index) => {
+        const [volts, hz] = supply.split('-').map(Number)
+        builder.setParameter(`sv${index}`, volts)
+        builder.setParameter(`sh${index}`, hz)
+        return `(variant.ratedVolts = :sv${index} AND (variant.ratedHz = :sh${index} OR variant.dualFrequency = 1))`
+      })
+      builder.andWhere(`(${clauses.join(' OR ')})`)
+    }
+    if (query.minOutputW !== undefined) builder.andWhere('variant.ratedOutputW >= :minOut', { minOut: query.minOutputW })
+    if (query.maxOutputW !== undefined) builder.andWhere('variant.ratedOutputW <= :maxOut', { maxOut: query.maxOutputW })
+    if (query.maxFrameMm !== undefined) builder.andWhere('variant.frameDiameterMm <= :maxFrame', { maxFrame: query.maxFrameMm })
+    if (query.protection?.length) builder.andWhere('variant.protection IN (:...protections)', { protections: query.protection })
+    if (query.insulation?.length) builder.andWhere('variant.insulationClass IN (:...classes)', { classes: query.insulation })
+    if (query.lifecycle?.length) builder.andWhere('variant.lifecycle IN (:...lifecycles)', { lifecycles: query.lifecycle })
+    const direction = query.order === 'desc' ? 'DESC' : 'ASC'
+    builder.orderBy(`variant.${query.sort}`, direction)
+    if (query.sort !== 'partNumber') builder.addOrderBy('variant.partNumber', 'ASC')
+    builder.skip((query.page - 1) * query.pageSize).take(query.pageSize)
+    const [rows, total] = await builder.getManyAndCount()
+    return { items: rows.map(toVariantRow), total, page: query.page, pageSize: query.pageSize }
+  }
+
+  async getVariant(partNumber: string): Promise<VariantDetail> {
+    const variant = await this.dataSource.getRepository(MotorVariant).findOne({ where: { partNumber }, relations: { family: true } })
+    if (!variant) throw new NotFoundError('Motor')
+    const performance = await this.dataSource
+      .getRepository(MotorPerformance)
+      .find({ where: { variantId: variant.id, current: true }, order: { hz: 'ASC', volts: 'ASC', tap: 'ASC' } })
+    return {
+      ...toVariantRow(variant),
+      ratedCurrentA: variant.ratedCurrentA,
+      lockedRotorTorqueNm: variant.lockedRotorTorqueNm,
+      breakdownTorqueNm: variant.breakdownTorqueNm,
+      stackLengthMm: variant.stackLengthMm,
+      shaftDiameterMm: variant.shaftDiameterMm,
+      shaftLengthMm: variant.shaftLengthMm,
+      mounting: mountingCode(variant.mounting),
+      rotation: variant.rotation,
+      rotationViewedFrom: variant.rotationViewedFrom,
+      otherRotationAvailable: variant.otherRotationAvailable,
+      enclosure: enclosureCode(variant.enclosure),
+      maxAmbientC: variant.maxAmbientC,
+      capacitorUf: variant.capacitorUf,
+      capacitorVac: variant.capacitorVac,
+      copperMassG: variant.copperMassG,
+      weightG: variant.weightG,
+      moq: variant.moq,
+      leadTimeDays: variant.leadTimeDays,
+      familyDescription: variant.family.description,
+      performance: performance.map((row) => ({
+        id: row.id,
+        tap: row.tap,
+        volts: row.volts,
+        hz: row.hz,
+        source: row.source,
+        referenceTempC: row.referenceTempC,
+        motor: row.motor,
+        createdAt: row.createdAt.toISOString(),
+      })),
+      datasheets: [],
+      updatedAt: variant.updatedAt.toISOString(),
+    }
+  }
+
+  async facets(): Promise<CatalogueFacets> {
+    const supplies: { volts: number; hz: number; isDual: number; count: string }[] = await this.dataSource.query(
+      'SELECT ratedVolts AS volts, ratedHz AS hz, dualFrequency AS isDual, COUNT(*) AS count FROM motor_variant GROUP BY ratedVolts, ratedHz, dualFrequency ORDER BY ratedVolts, ratedHz',
+    )
+    const merged = new Map<string, { volts: number; hz: number; count: number }>()
+    for (const row of supplies) {
+      const hzList = Number(row.isDual) ? [50, 60] : [Number(row.hz)]
+      for (const hz of hzList) {
+        const key = `${row.volts}-${hz}`
+        const item = merged.get(key) ?? { volts: Number(row.volts), hz, count: 0 }
+        item.count += Number(row.count)
+        merged.set(key, item)
+      }
+    }
+    const frames: { frame: number }[] = await this.dataSource.query('SELECT DISTINCT frameDiameterMm AS frame FROM motor_variant ORDER BY frame')
+    const range: { min: number | null; max: number | null }[] = await this.dataSource.query('SELECT MIN(ratedOutputW) AS min, MAX(ratedOutputW) AS max FROM motor_variant')
+    return {
+      supplies: [...merged.values()].sort((a, b) => a.volts - b.volts || a.hz - b.hz),
+      frames: frames.map((row) => Number(row.frame)),
+      outputRangeW: { min: Number(range[0]?.min ?? 0), max: Number(range[0]?.max ?? 0) },
+    }
+  }
+
+  async demoFans(): Promise<DemoFanDto[]> {
+    const fans = await this.dataSource.getRepository(DemoFan).find({ order: { code: 'ASC' } })
+    return fans.map((fan) => ({ ...fan }))
+  }
+
+  async revision(): Promise<number> {
+    const row = await this.dataSource.getRepository(CatalogueRevision).findOneBy({ id: 1 })
+    return row?.revision ?? 0
+  }
+
+  /** Every variant with its current performance rows, prepared for the solver; cached per revision. */
+  async solverCatalogue(): Promise<{ revision: number; entries: CatalogueEntry[] }> {
+    const revision = await this.revision()
+    if (this.cache?.revision === revision) return this.cache
+    this.loading ??= this.load(revision).finally(() => {
+      this.loading = undefined
+    })
+    return this.loading
+  }
+
+  private async load(revision: number): Promise<{ revision: number; entries: CatalogueEntry[] }> {
+    const variants = await this.dataSource.getRepository(MotorVariant).find({ order: { partNumber: 'ASC' } })
+    const rows = await this.dataSource.getRepository(MotorPerformance).find({ where: { current: true } })
+    const byVariant = new Map<string, CatalogueEntry>()
+    const entries: CatalogueEntry[] = variants.map((variant) => {
+      const entry: CatalogueEntry = {
+        variantId: variant.id,
+        partNumber: variant.partNumber,
+        name: variant.name,
+        type: variant.type,
+        poles: variant.poles,
+        ratedOutputW: variant.ratedOutputW,
+        frameDiameterMm: variant.frameDiameterMm,
+        mounting: variant.mounting,
+        enclosure: variant.enclosure,
+        rotation: variant.rotation,
+        rotationViewedFrom: variant.rotationViewedFrom,
+        otherRotationAvailable: variant.otherRotationAvailable,
+        insulationClass: insulationCode(variant.insulationClass),
+        protection: variant.protection,
+        maxAmbientC: variant.maxAmbientC,
+        lifecycle: variant.lifecycle,
+        performance: [],
+      }
+      byVariant.set(variant.id, entry)
+      return entry
+    })
+    for (const row of rows) {
+      const entry = byVariant.get(row.variantId)
+      if (!entry) continue
+      try {
+        entry.performance.push(preparePerformance({ id: row.id, tap: row.tap, volts: row.volts, hz: row.hz, referenceTempC: row.referenceTempC, motor: row.motor }))
+      } catch (error) {
+        // Data that the core refuses is left out of selection rather than breaking every run.
+        console.error(`performance ${row.id} of ${entry.partNumber} skipped: ${error instanceof Error ? error.message : String(error)}`)
+      }
+    }
+    this.cache = { revision, entries, byVariant }
+    return this.cache
+  }
+}
+
+function mountingCode(value: string): VariantDetail['mounting'] {
+  switch (value) {
+    case 'stud':
+    case 'through-bolt':
+    case 'flange':
+    case 'bracket':
+    case 'resilient-ring':
+    case 'belly-band':
+      return value
+    default:
+      throw new Error(`unknown mounting ${value}`)
+  }
+}
+
+function enclosureCode(value: string): VariantDetail['enclosure'] {
+  switch (value) {
+    case 'open':
+    case 'air-over':
+    case 'totally-enclosed':
+      return value
+    default:
+      throw new Error(`unknown enclosure ${value}`)
+  }
+}
