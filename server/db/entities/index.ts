@@ -6,12 +6,26 @@ import { MotorFamily } from './motor-family.entity'
 import { MotorPerformance } from './motor-performance.entity'
 import { MotorVariant } from './motor-variant.entity'
 import { Organisation } from './organisation.entity'
+import { AccountTerms, CopperIndexRecord, PriceListEntryRecord, PriceListRecord } from './pricing.entities'
+import { DepositPayment, PaymentEvent, QuoteAcceptance, QuoteRecordEntity, QuoteRevisionRecord, QuoteSequence, SalesOrder } from './quote.entities'
 import { SeedMarker } from './seed-marker.entity'
 import { SessionRecord } from './session-record.entity'
 import { StudyRun } from './study-run.entity'
 import { User } from './user.entity'
 
-export { AuditEntry, CatalogueRevision, DemoFan, DutyStudy, MotorFamily, MotorPerformance, MotorVariant, Organisation, SeedMarker, SessionRecord, StudyRun, User }
+export {
+  AccountTerms,
+  CopperIndexRecord,
+  PriceListEntryRecord,
+  PriceListRecord,
+  DepositPayment,
+  PaymentEvent,
+  QuoteAcceptance,
+  QuoteRecordEntity,
+  QuoteRevisionRecord,
+  QuoteSequence,
+  SalesOrder,
+  AuditEntry, CatalogueRevision, DemoFan, DutyStudy, MotorFamily, MotorPerformance, MotorVariant, Organisation, SeedMarker, SessionRecord, StudyRun, User }
 
 /** Every entity, listed explicitly so nothing depends on a file glob matching compiled output. */
 export const entities = [
@@ -27,4 +41,15 @@ export const entities = [
   CatalogueRevision,
   DutyStudy,
   StudyRun,
+  PriceListRecord,
+  PriceListEntryRecord,
+  CopperIndexRecord,
+  AccountTerms,
+  QuoteRecordEntity,
+  QuoteRevisionRecord,
+  QuoteSequence,
+  QuoteAcceptance,
+  DepositPayment,
+  PaymentEvent,
+  SalesOrder,
 ]

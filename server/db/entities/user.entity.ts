@@ -33,6 +33,10 @@ export class User {
   @Column({ type: 'datetime', precision: 3, nullable: true })
   disabledAt: Date | null
 
+  /** Largest extra discount a sales engineer may give on a quote line, basis points. */
+  @Column({ type: 'int', default: 0 })
+  discountLimitBp: number
+
   @CreateDateColumn({ type: 'datetime', precision: 3, default: () => 'CURRENT_TIMESTAMP(3)' })
   createdAt: Date
 
