@@ -4,7 +4,7 @@ import { defineConfig } from '@playwright/test'
 export default defineConfig({
   testDir: 'tests/e2e',
   testMatch: '**/*.e2e.ts',
-  outputDir: '.data/test/e2e-output',
+  outputDir: process.env.PLAYWRIGHT_OUTPUT_DIR ?? '.data/test/e2e-output',
   timeout: 60_000,
   expect: { timeout: 10_000 },
   fullyParallel: false,

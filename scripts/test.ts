@@ -1,7 +1,7 @@
 // `npm test`: type-check, unit tests, API tests over a throwaway MariaDB and end-to-end tests in
 // Debian's Chromium. Ends with one line `N passed, N failed, N skipped` totalled over the suites.
 import { spawn } from 'node:child_process'
-import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import path from 'node:path'
 import { ensureChromium } from './lib/chromium'
 import { startMaria, type MariaInstance } from './lib/mariadb'
@@ -17,7 +17,24 @@ interface Tally {
 }
 
 const bin = (name: string): string => path.join(ROOT, 'node_modules', '.bin', name)
-const testDir = path.resolve('.data/test')
+/** `.data/test`, or a folder of this run's own while another run (a colleague's) holds that one. */
+function chooseTestDir(): string {
+  const preferred = path.resolve(process.env.TEST_DIR ?? '.data/test')
+  const lock = path.join(preferred, 'run.pid')
+  if (existsSync(lock)) {
+    const pid = Number(readFileSync(lock, 'utf8'))
+    let alive = false
+    try {
+      process.kill(pid, 0)
+      alive = pid !== process.pid
+    } catch {
+      alive = false
+    }
+    if (alive) return path.resolve(`.data/test-${process.pid}`)
+  }
+  return preferred
+}
+const testDir = chooseTestDir()
 
 function run(command: string, args: string[], env: NodeJS.ProcessEnv): Promise<number> {
   return new Promise((resolve) => {
@@ -64,6 +81,8 @@ async function main(): Promise<number> {
   try {
     rmSync(testDir, { recursive: true, force: true })
     mkdirSync(reports, { recursive: true })
+    writeFileSync(path.join(testDir, 'run.pid'), String(process.pid))
+    say(`test folder ${path.relative(ROOT, testDir)}`)
 
     if (only.has('types')) {
       say('type-check (vue-tsc --build) ...')
@@ -108,6 +127,8 @@ async function main(): Promise<number> {
         SIGNIN_LIMIT_PER_IP: '1000',
         CHROMIUM_PATH: chromium,
         BASE_URL: `http://127.0.0.1:${ports.app}`,
+        SCREENSHOT_DIR: path.join(testDir, 'screenshots'),
+        PLAYWRIGHT_OUTPUT_DIR: path.join(testDir, 'e2e-output'),
       }
       // The e2e database is separate from the API tests' one, and seeded like a fresh `npm start`.
       await createDatabase(maria, 'spinwright_e2e')
@@ -131,6 +152,7 @@ async function main(): Promise<number> {
     }
     await fakes?.stop()
     await maria?.stop()
+    rmSync(path.join(testDir, 'run.pid'), { force: true })
   }
 
   console.log('')

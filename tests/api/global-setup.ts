@@ -1,6 +1,7 @@
 // Prepares the API tests' database: the throwaway MariaDB of `npm test` (TEST_DB_* set), or one of
 // its own when the suite runs alone (`npm run test:api`). The schema comes from the migrations.
 import path from 'node:path'
+import { rmSync } from 'node:fs'
 import mysql from 'mysql2/promise'
 import type { TestProject } from 'vitest/node'
 import { startMaria, type MariaInstance } from '../../scripts/lib/mariadb'
@@ -22,6 +23,8 @@ declare module 'vitest' {
 }
 
 let own: MariaInstance | undefined
+// A folder of this run's own, so parallel runs never touch each other's server.
+const ownDir = path.resolve(`.data/test-api-${process.pid}/mariadb`)
 
 export async function setup(project: TestProject): Promise<void> {
   let port = Number(process.env.TEST_DB_PORT ?? 0)
@@ -29,7 +32,7 @@ export async function setup(project: TestProject): Promise<void> {
   const password = process.env.TEST_DB_PASSWORD ?? 'spinwright-test'
   const database = 'spinwright_test'
   if (!port) {
-    own = await startMaria({ dir: path.resolve('.data/test-api/mariadb'), port: await freePort(3337), database, user: 'spinwright', password })
+    own = await startMaria({ dir: ownDir, port: await freePort(3337), database, user: 'spinwright', password })
     port = own.port
     socket = own.socket
   }
@@ -50,4 +53,5 @@ export async function setup(project: TestProject): Promise<void> {
 
 export async function teardown(): Promise<void> {
   await own?.stop()
+  if (own) rmSync(path.dirname(ownDir), { recursive: true, force: true })
 }

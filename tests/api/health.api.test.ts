@@ -35,7 +35,7 @@ describe('GET /api/health', () => {
 
 describe('GET /api/health with the database stopped under the running app', () => {
   // A MariaDB of its own, so stopping it does not disturb the other suites.
-  const dir = path.resolve('.data/test-fault/mariadb')
+  const dir = path.resolve(`.data/test-fault-${process.pid}/mariadb`)
   let maria: MariaInstance
   let port: number
 
@@ -46,6 +46,7 @@ describe('GET /api/health with the database stopped under the running app', () =
   })
   afterAll(async () => {
     await maria.stop()
+    rmSync(path.dirname(dir), { recursive: true, force: true })
   })
 
   it('answers 503 with the reason while the database is down, and ok again when it returns', async () => {

@@ -2,7 +2,7 @@ import { expect, type Page } from '@playwright/test'
 import path from 'node:path'
 
 export const DEMO_PASSWORD = 'Spinwright-demo-1'
-export const SCREENSHOTS = path.resolve('.data/test/screenshots')
+export const SCREENSHOTS = path.resolve(process.env.SCREENSHOT_DIR ?? '.data/test/screenshots')
 
 export async function signIn(page: Page, email: string, next = '/'): Promise<void> {
   await page.goto(`/sign-in?next=${encodeURIComponent(next)}`)
