@@ -2,6 +2,7 @@ import { AuditEntry } from './audit-entry.entity'
 import { CatalogueRevision } from './catalogue-revision.entity'
 import { DemoFan } from './demo-fan.entity'
 import { DutyStudy } from './duty-study.entity'
+import { MailOutbox } from './mail-outbox.entity'
 import { MotorFamily } from './motor-family.entity'
 import { MotorPerformance } from './motor-performance.entity'
 import { MotorVariant } from './motor-variant.entity'
@@ -25,6 +26,7 @@ export {
   QuoteRevisionRecord,
   QuoteSequence,
   SalesOrder,
+  MailOutbox,
   AuditEntry, CatalogueRevision, DemoFan, DutyStudy, MotorFamily, MotorPerformance, MotorVariant, Organisation, SeedMarker, SessionRecord, StudyRun, User }
 
 /** Every entity, listed explicitly so nothing depends on a file glob matching compiled output. */
@@ -52,4 +54,5 @@ export const entities = [
   DepositPayment,
   PaymentEvent,
   SalesOrder,
+  MailOutbox,
 ]
