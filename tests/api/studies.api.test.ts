@@ -32,7 +32,7 @@ beforeAll(async () => {
   visitor = await anonymousAgent(ctx)
 })
 
-const preview = (body: unknown) => visitor.agent.post('/api/v1/studies/preview-run').set('X-CSRF-Token', visitor.csrf).send(body)
+const preview = (body: object) => visitor.agent.post('/api/v1/studies/preview-run').set('X-CSRF-Token', visitor.csrf).send(body)
 afterAll(async () => {
   await ctx.close()
 })
