@@ -12,10 +12,11 @@ export function colorAt(palette: readonly string[], index: number): string {
   return palette[index % palette.length] ?? '#0b5d5e'
 }
 
-/** rgba() of a #rrggbb colour; other colour strings are returned as they are. */
+/** rgba() of a #rgb, #rrggbb or #rrggbbaa colour; other colour strings are returned as they are. */
 export function withAlpha(color: string, alpha: number): string {
-  const match = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})$/i.exec(color)
-  if (!match) return color
-  const [r, g, b] = [match[1], match[2], match[3]].map((hex) => parseInt(hex ?? '0', 16))
+  let hex = /^#([0-9a-f]{3,8})$/i.exec(color)?.[1]
+  if (!hex || ![3, 6, 8].includes(hex.length)) return color
+  if (hex.length === 3) hex = [...hex].map((ch) => ch + ch).join('')
+  const [r, g, b] = [0, 2, 4].map((at) => parseInt(hex.slice(at, at + 2), 16))
   return `rgba(${r}, ${g}, ${b}, ${alpha})`
 }

@@ -46,4 +46,6 @@ export interface ScatterSeries {
   size?: number
   /** Text beside each point, same order as points. */
   labels?: readonly string[]
+  /** Outline only, so the curve under the points stays visible (measured points on a fitted curve). */
+  hollow?: boolean
 }
