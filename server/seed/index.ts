@@ -3,13 +3,17 @@
 import type { DataSource, EntityManager } from 'typeorm'
 import { SeedMarker } from '../db/entities'
 import { seedDemoUsers } from './demo-users'
+import { seedDemoCatalogue } from './seed-catalogue'
 
 export interface SeedStep {
   step: string
   run(manager: EntityManager): Promise<void>
 }
 
-export const SEED_STEPS: SeedStep[] = [{ step: 'demo-users-v1', run: seedDemoUsers }]
+export const SEED_STEPS: SeedStep[] = [
+  { step: 'demo-users-v1', run: seedDemoUsers },
+  { step: 'demo-catalogue-v1', run: seedDemoCatalogue },
+]
 
 export async function seedDemoData(dataSource: DataSource, steps: SeedStep[] = SEED_STEPS): Promise<string[]> {
   const ran: string[] = []

@@ -226,7 +226,7 @@ export class CatalogueService {
       const entry = byVariant.get(row.variantId)
       if (!entry) continue
       try {
-        entry.performance.push(preparePerformance({ id: row.id, tap: row.tap, volts: row.volts, hz: row.hz, referenceTempC: row.referenceTempC, motor: row.motor }))
+        entry.performance.push(preparePerformance({ id: row.id, tap: row.tap, volts: row.volts, hz: row.hz, referenceTempC: row.referenceTempC, motor: row.motor }, entry.insulationClass))
       } catch (error) {
         // Data that the core refuses is left out of selection rather than breaking every run.
         console.error(`performance ${row.id} of ${entry.partNumber} skipped: ${error instanceof Error ? error.message : String(error)}`)

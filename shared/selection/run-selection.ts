@@ -9,8 +9,8 @@ import {
   breakdownTorque,
   prepareLoad,
   syncRpm,
-  toleranceAnalysis,
-  type CircuitMotor,
+  solveOperatingPoint,
+  hotMotor,
   type MotorModel,
   type OperatingPoint,
   type PreparedLoad,
@@ -43,6 +43,12 @@ export interface CataloguePerformance {
   prepared: PreparedMotor
   /** Breakdown torque at the row's own volts and Hz (scaled with (V/V_row)^2 for the study supply). */
   breakdownNm: number
+  /**
+   * Circuit models: the motor with its windings at the insulation class limit (copper stator
+   * 234.5, die-cast aluminium rotor 225), the worst it may run; absent for measured curves.
+   */
+  hotPrepared?: PreparedMotor
+  hotC?: number
 }
 
 export interface CatalogueEntry {
@@ -66,9 +72,13 @@ export interface CatalogueEntry {
 }
 
 /** Builds the solver-ready form of a performance row once (the server caches it per catalogue revision). */
-export function preparePerformance(row: Omit<CataloguePerformance, 'prepared' | 'breakdownNm'>): CataloguePerformance {
+export function preparePerformance(row: Omit<CataloguePerformance, 'prepared' | 'breakdownNm' | 'hotPrepared' | 'hotC'>, insulation?: InsulationClassCode): CataloguePerformance {
   const prepared = prepareMotor(row.motor)
-  return { ...row, prepared, breakdownNm: breakdownTorque(prepared, { volts: row.volts, hz: row.hz }).torqueNm }
+  const breakdownNm = breakdownTorque(prepared, { volts: row.volts, hz: row.hz }).torqueNm
+  const hotC = insulation ? insulationClass(insulation)?.classC : undefined
+  if (row.motor.model !== 'circuit' || hotC === undefined) return { ...row, prepared, breakdownNm }
+  const hot = prepareMotor(hotMotor(row.motor, { referenceC: row.referenceTempC, hotC, rotorConstant: 225 }))
+  return { ...row, prepared, breakdownNm, hotPrepared: hot, hotC }
 }
 
 /** Supplies within this fraction of a row's volts (same Hz) use that row, scaled by the core. */
@@ -191,6 +201,7 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
   const exclude = (reason: string) => excluded.set(reason, (excluded.get(reason) ?? 0) + 1)
   const scored: Scored[] = []
   const minClass = input.constraints.minInsulationClass
+  const lowSupply: Supply = { volts: supply.volts * (1 - input.tolerance.voltagePct / 100), hz: supply.hz }
   let considered = 0
 
   for (const entry of catalogue) {
@@ -206,18 +217,14 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
     }
     for (const row of rows) {
       considered += 1
-      const circuit: CircuitMotor | undefined = row.motor.model === 'circuit' ? row.motor : undefined
-      const classLimit = insulationClass(entry.insulationClass)?.classC
-      const analysis = toleranceAnalysis(row.prepared, load, supply, {
-        voltageTolerance: input.tolerance.voltagePct / 100,
-        // Hot case: the winding at its insulation class limit, the worst it may run (docs/selection.md).
-        hotWinding: circuit && classLimit ? { referenceC: row.referenceTempC, hotC: classLimit } : undefined,
-      })
-      const nominal = analysis.nominal
-      const lowLine = analysis.lowLine
-      const hotCase = analysis.cases.find((item) => item.name === 'hot-low-line') ?? analysis.cases.find((item) => item.name === 'hot')
-      const worstFlow = Math.min(lowLine.flowM3s ?? 0, hotCase?.point.flowM3s ?? Number.POSITIVE_INFINITY)
-      const worstRuns = lowLine.status === 'running' && !lowLine.crawl && (!hotCase || (hotCase.point.status === 'running' && !hotCase.point.crawl))
+      // Nominal and low line for every candidate; the hot winding at low line only where it could
+      // still change the verdict (a cold motor that already falls short stays short when hot).
+      const nominal = solveOperatingPoint(row.prepared, load, supply)
+      const lowLine = solveOperatingPoint(row.prepared, load, lowSupply)
+      const lowLineGood = lowLine.status === 'running' && !lowLine.crawl && (lowLine.flowM3s ?? 0) >= requiredFlow
+      const hotPoint = row.hotPrepared && lowLineGood ? solveOperatingPoint(row.hotPrepared, load, lowSupply) : undefined
+      const worstFlow = Math.min(lowLine.flowM3s ?? 0, hotPoint?.flowM3s ?? Number.POSITIVE_INFINITY)
+      const worstRuns = lowLine.status === 'running' && !lowLine.crawl && (!hotPoint || (hotPoint.status === 'running' && !hotPoint.crawl))
       const meetsDuty = nominal.status === 'running' && !nominal.crawl && worstRuns && worstFlow >= requiredFlow
       const nominalFlow = nominal.flowM3s ?? 0
       const nominalMeets = nominal.status === 'running' && !nominal.crawl && nominalFlow >= requiredFlow
@@ -227,7 +234,7 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
       const breakdownMarginPct = nominal.status === 'running' && nominal.shaftTorqueNm > 0 ? (breakdownNm / nominal.loadTorqueNm - 1) * 100 : null
       const warnings: CandidateWarning[] = []
       if (nominal.status !== 'running') warnings.push({ code: 'no-start', message: 'Cannot start the fan: locked-rotor torque is below the load at standstill' })
-      else if (lowLine.status !== 'running') warnings.push({ code: 'no-start', message: `Does not start at low line (${Math.round(analysis.cases[1]?.supply.volts ?? 0)} V)` })
+      else if (lowLine.status !== 'running') warnings.push({ code: 'no-start', message: `Does not start at low line (${Math.round(lowSupply.volts)} V)` })
       if (nominal.crawl || lowLine.crawl) {
         warnings.push({ code: 'crawl', message: `Stuck in a torque dip at ${Math.round((nominal.crawl ? nominal : lowLine).rpm)} r/min${nominal.crawl ? '' : ' at low line'}; it would not reach full speed` })
       }
@@ -267,7 +274,7 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
         ratedOutputW: entry.ratedOutputW,
         nominal: summary(nominal),
         lowLine: summary(lowLine),
-        hot: hotCase ? summary(hotCase.point) : null,
+        hot: hotPoint ? summary(hotPoint) : null,
         meetsDuty,
         marginPct: (nominalFlow / dutyFlow - 1) * 100,
         lowLineMarginPct: ((lowLine.flowM3s ?? 0) / dutyFlow - 1) * 100,
@@ -288,7 +295,6 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
     item.candidate.rank = index + 1
   })
 
-  const lowSupply: Supply = { volts: supply.volts * (1 - input.tolerance.voltagePct / 100), hz: supply.hz }
   const charted = scored.slice(0, CHART_CANDIDATES)
   const curves: CandidateCurves[] = charted.map((item) => ({
     variantId: item.candidate.variantId,
