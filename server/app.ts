@@ -17,8 +17,16 @@ import { catalogueRoutes } from './routes/catalogue.routes'
 import { studyRoutes } from './routes/study.routes'
 import { CatalogueService } from './services/catalogue.service'
 import { StudyService } from './services/study.service'
+import { QuoteService } from './services/quote.service'
+import { outboxQuoteMailer } from './services/quote-mailer'
+import { quoteRoutes } from './routes/quote.routes'
+import { renderQuotePdf } from './documents/quote-pdf'
+import { portalUrlFrom } from './mail/templates'
 import { healthRoutes } from './routes/health.routes'
 import { UserService } from './services/user.service'
+import { createPaymentServices, paymentWebhookHandler, WEBHOOK_PATH } from './payments'
+import { orderRoutes } from './routes/order.routes'
+import { paymentRoutes } from './routes/payment.routes'
 
 export interface AppDeps {
   config: Config
@@ -26,11 +34,13 @@ export interface AppDeps {
   /** Folder of the built SPA; omitted in API tests. */
   clientDir?: string
   log?: (error: unknown) => void
+  /** Today's date as YYYY-MM-DD; tests move it to check validity and expiry. */
+  today?: () => string
 }
 
 export interface AppHandle {
   app: Express
-  services: { catalogue: CatalogueService; studies: StudyService }
+  services: { catalogue: CatalogueService; studies: StudyService; quotes: QuoteService }
   routes: RouteEntry[]
   sessionStore: TypeormSessionStore
   close(): void
@@ -40,7 +50,7 @@ export const SESSION_COOKIE = 'spinwright.sid'
 // Routes that prove themselves another way (signed payment webhooks) skip the CSRF check.
 const CSRF_EXEMPT = new Set<string>(['/payments/webhook'])
 
-export function createApp({ config, dataSource, clientDir, log = console.error }: AppDeps): AppHandle {
+export function createApp({ config, dataSource, clientDir, log = console.error, today }: AppDeps): AppHandle {
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', config.TRUST_PROXY ? 1 : false)
@@ -70,8 +80,20 @@ export function createApp({ config, dataSource, clientDir, log = console.error }
   const users = new UserService(dataSource)
   const catalogue = new CatalogueService(dataSource)
   const studies = new StudyService(dataSource, catalogue)
+  const quotes = new QuoteService({
+    dataSource,
+    catalogue,
+    dataDir: path.resolve(config.DATA_DIR),
+    publicUrl: portalUrlFrom(config),
+    renderPdf: renderQuotePdf,
+    mailer: outboxQuoteMailer(portalUrlFrom(config)),
+    today,
+  })
+  const payments = createPaymentServices(config, dataSource, log)
   const passport = createPassport(users)
   const sessionStore = new TypeormSessionStore(dataSource)
+  // The signature covers the raw bytes: this route gets its own parser, ahead of the API router's JSON one.
+  app.post(WEBHOOK_PATH, express.raw({ type: 'application/json', limit: '256kb' }), paymentWebhookHandler(payments.webhooks))
   const api = express.Router()
   api.use(express.json({ limit: '1mb' }))
   api.use(
@@ -107,6 +129,9 @@ export function createApp({ config, dataSource, clientDir, log = console.error }
     adminUserRoutes(dataSource),
     catalogueRoutes(catalogue),
     studyRoutes(studies),
+    quoteRoutes(quotes, dataSource),
+    paymentRoutes(payments.deposits),
+    orderRoutes(payments.orders),
   ]
   for (const router of routers) api.use(router.prefix || '/', router.router)
   api.use(apiNotFound)
@@ -125,7 +150,7 @@ export function createApp({ config, dataSource, clientDir, log = console.error }
 
   return {
     app,
-    services: { catalogue, studies },
+    services: { catalogue, studies, quotes },
     routes: routers.flatMap((router) => router.routes.map((route) => ({ ...route, path: `/api${route.path}` }))),
     sessionStore,
     close: () => sessionStore.close(),

@@ -64,6 +64,11 @@ export function errorHandler(log: (error: unknown) => void = console.error): Err
       res.status(parser.status).json({ error: { code: 'bad_request', message: 'The request body could not be read', fields: { body: parser.type } } })
       return
     }
+    // http-errors from Express internals (send, static) that are the client's doing.
+    if (typeof error === 'object' && error !== null && 'status' in error && typeof error.status === 'number' && error.status >= 400 && error.status < 500 && 'expose' in error && error.expose === true) {
+      res.status(error.status).json({ error: { code: error.status === 404 ? 'not_found' : 'bad_request', message: error instanceof Error ? error.message : 'Bad request' } })
+      return
+    }
     if (isDatabaseDown(error)) {
       res.status(503).json({ error: { code: 'database_unavailable', message: 'The database is not answering; nothing was saved. Try again in a moment' } })
       return

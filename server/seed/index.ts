@@ -4,6 +4,7 @@ import type { DataSource, EntityManager } from 'typeorm'
 import { SeedMarker } from '../db/entities'
 import { seedDemoUsers } from './demo-users'
 import { seedDemoCatalogue } from './seed-catalogue'
+import { seedDemoPricing } from './demo-pricing'
 
 export interface SeedStep {
   step: string
@@ -13,6 +14,7 @@ export interface SeedStep {
 export const SEED_STEPS: SeedStep[] = [
   { step: 'demo-users-v1', run: seedDemoUsers },
   { step: 'demo-catalogue-v1', run: seedDemoCatalogue },
+  { step: 'demo-pricing-v1', run: seedDemoPricing },
 ]
 
 export async function seedDemoData(dataSource: DataSource, steps: SeedStep[] = SEED_STEPS): Promise<string[]> {
