@@ -1,0 +1,29 @@
+// Wires the payment side (SDK client, deposits, webhook, orders) from the configuration.
+import type { DataSource } from 'typeorm'
+import type { Config } from '../config'
+import { DepositService } from './deposit.service'
+import { OrderService } from './order.service'
+import { createStripeClient } from './stripe-client'
+import { PaymentWebhookService } from './webhook.service'
+
+export { DepositService } from './deposit.service'
+export { OrderService } from './order.service'
+export { PaymentWebhookService } from './webhook.service'
+export { paymentWebhookHandler, WEBHOOK_PATH } from './webhook.handler'
+
+export interface PaymentServices {
+  deposits: DepositService
+  orders: OrderService
+  webhooks: PaymentWebhookService
+}
+
+export function createPaymentServices(config: Config, dataSource: DataSource, log: (error: unknown) => void): PaymentServices {
+  const stripe = createStripeClient(config)
+  const orders = new OrderService(dataSource)
+  const publicUrl = config.PUBLIC_URL ?? `http://${config.HOST}:${config.PORT}`
+  return {
+    orders,
+    deposits: new DepositService({ dataSource, stripe, publicUrl, log }),
+    webhooks: new PaymentWebhookService({ dataSource, stripe, webhookSecret: config.STRIPE_WEBHOOK_SECRET, orders, log }),
+  }
+}
