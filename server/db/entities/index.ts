@@ -2,6 +2,7 @@ import { AuditEntry } from './audit-entry.entity'
 import { CatalogueRevision } from './catalogue-revision.entity'
 import { DemoFan } from './demo-fan.entity'
 import { DutyStudy } from './duty-study.entity'
+import { Invitation } from './invitation.entity'
 import { MailOutbox } from './mail-outbox.entity'
 import { MotorFamily } from './motor-family.entity'
 import { MotorPerformance } from './motor-performance.entity'
@@ -13,6 +14,8 @@ import { SeedMarker } from './seed-marker.entity'
 import { SessionRecord } from './session-record.entity'
 import { StudyRun } from './study-run.entity'
 import { User } from './user.entity'
+import { Datasheet } from './datasheet.entity'
+import { ImportBatch } from './import-batch.entity'
 
 export {
   AccountTerms,
@@ -27,6 +30,7 @@ export {
   QuoteSequence,
   SalesOrder,
   MailOutbox,
+  Invitation,
   AuditEntry, CatalogueRevision, DemoFan, DutyStudy, MotorFamily, MotorPerformance, MotorVariant, Organisation, SeedMarker, SessionRecord, StudyRun, User }
 
 /** Every entity, listed explicitly so nothing depends on a file glob matching compiled output. */
@@ -55,4 +59,5 @@ export const entities = [
   PaymentEvent,
   SalesOrder,
   MailOutbox,
+  Invitation,
 ]
