@@ -31,6 +31,8 @@ export {
   SalesOrder,
   MailOutbox,
   Invitation,
+  Datasheet,
+  ImportBatch,
   AuditEntry, CatalogueRevision, DemoFan, DutyStudy, MotorFamily, MotorPerformance, MotorVariant, Organisation, SeedMarker, SessionRecord, StudyRun, User }
 
 /** Every entity, listed explicitly so nothing depends on a file glob matching compiled output. */
@@ -60,4 +62,6 @@ export const entities = [
   SalesOrder,
   MailOutbox,
   Invitation,
+  Datasheet,
+  ImportBatch,
 ]
