@@ -10,6 +10,7 @@ import * as studiesApi from '@/api/studies.api'
 import { listDemoFans } from '@/api/catalogue.api'
 import { toApiFailure, type ApiFailure } from '@/api/http'
 import { useSessionStore } from './session.store'
+import { airDensity, studyFanCurve } from '@shared/selection/air'
 
 export type FanMode = 'demo' | 'points' | 'duty-only'
 export type SupplyPreset = '120-60' | '230-50' | '230-60' | '100-50' | '100-60' | 'custom'
@@ -108,33 +109,17 @@ export function emptyPoint(): FanPointDraft {
   return { flowM3s: null, staticPa: null, shaftW: null }
 }
 
-/**
- * Air density from temperature and altitude: the ICAO/ISO 2533 standard atmosphere for pressure,
- * p = 101325 (1 - 2.25577e-5 h)^5.25588 Pa (as ASHRAE Handbook - Fundamentals, ch. 1, eq. 3 gives
- * it), and the ideal gas law with R = 287.055 J/(kg K) for dry air. The server computes its own;
- * this one feeds the preview.
- */
-export function airDensity(temperatureC: number, altitudeM: number): number {
-  const pressure = 101_325 * Math.pow(1 - 2.25577e-5 * altitudeM, 5.25588)
-  return pressure / (287.055 * (temperatureC + 273.15))
-}
-
-/**
- * A generic fan curve through the duty point for "duty point only" studies, for the preview:
- * a parabola from shut-off at 1.6 x the duty pressure to free delivery, shaft power rising from
- * 40 % to 115 % of the duty's (air power / efficiency). The server builds the curve the run uses.
- */
-export function genericFanCurve(dutyFlow: number, dutyPa: number, efficiency: number): FanPoint[] {
-  const shutOff = 1.6 * dutyPa
-  const b = (shutOff - dutyPa) / (dutyFlow * dutyFlow)
-  const freeFlow = Math.sqrt(shutOff / b)
-  const dutyPower = (dutyFlow * dutyPa) / efficiency
-  const points: FanPoint[] = []
-  for (let i = 0; i <= 10; i += 1) {
-    const q = (freeFlow * i) / 10
-    points.push({ flowM3s: q, staticPa: Math.max(0, shutOff - b * q * q), shaftW: dutyPower * (0.4 + (0.75 * q) / freeFlow) })
-  }
-  return points
+/** A valid input to complete partial drafts for the core's helpers (only fan and duty matter there). */
+const BASE_INPUT: StudyInput = {
+  name: 'preview',
+  fan: { source: 'duty-only', rpmAtDuty: 1000, efficiency: 0.3 },
+  duty: { flowM3s: 0.1, staticPa: 100 },
+  system: { offsetPa: 0 },
+  supply: { volts: 120, hz: 60 },
+  ambient: { temperatureC: 25, altitudeM: 0 },
+  energy: { hoursPerYear: 2000, tariffMinorPerKWh: 16, currency: 'USD', lifeYears: 10 },
+  constraints: { motorTypes: [], mountings: [], enclosures: [], protections: [], activeOnly: true },
+  tolerance: { voltagePct: 10, minMarginPct: 0 },
 }
 
 /**
@@ -304,9 +289,11 @@ export const useStudyStore = defineStore('study', () => {
     if (draft.fanMode === 'duty-only') {
       const eff = (draft.efficiencyPct ?? 0) / 100
       if (duty && eff >= 0.05 && eff <= 0.9 && draft.rpmAtDuty !== null && draft.rpmAtDuty > 0) {
-        fan = genericFanCurve(duty.flowM3s, duty.staticPa, eff)
-        refRpm = draft.rpmAtDuty
-        refDensity = rho
+        // The same generic curve the server's selection builds.
+        const curve = studyFanCurve({ ...BASE_INPUT, fan: { source: 'duty-only', rpmAtDuty: draft.rpmAtDuty, efficiency: eff }, duty }, rho)
+        fan = curve.points
+        refRpm = curve.refRpm
+        refDensity = curve.refDensity
         generic = true
       }
     } else {
@@ -507,7 +494,7 @@ export const useStudyStore = defineStore('study', () => {
       const f = toApiFailure(error)
       if (f.status === 409 && f.code === 'stale_version') conflict.value = true
       const fields: Record<string, string> = {}
-      for (const [path, message] of Object.entries(f.fields)) fields[path.replace(/^input\./, '')] = message
+      for (const [path, message] of Object.entries(f.fields)) fields[coreFieldToForm(path.replace(/^input\./, ''))] = message
       serverFields.value = fields
       failure.value = f
       return undefined
