@@ -44,7 +44,8 @@ async function main(): Promise<void> {
     }
     const { startServer } = await import('../server/index')
     const { prepareDatabase } = await import('../server/db/prepare')
-    await prepareDatabase(env)
+    const seeded = await prepareDatabase(env)
+    if (seeded.length > 0) say(`seeded demo data: ${seeded.join(', ')}`)
     buildClientIfStale()
     const running = await startServer(env)
     stopServer = running.stop
