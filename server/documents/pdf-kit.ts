@@ -168,6 +168,19 @@ export function line(doc: Pdf, text: string, x: number, y: number, s: TextStyle 
   return w
 }
 
+/** One line that shrinks its font (down to 6 pt) rather than run into the next column. */
+export function fitLine(doc: Pdf, text: string, x: number, y: number, width: number, s: TextStyle & { align?: 'left' | 'right' } = {}): void {
+  let size = s.size ?? 9
+  doc.font(s.font ?? FONT.regular).fontSize(size)
+  let w = doc.widthOfString(text)
+  while (size > 6 && w > width) {
+    size = Math.max(6, size * (width / w) - 0.05)
+    doc.fontSize(size)
+    w = doc.widthOfString(text)
+  }
+  line(doc, text, x, y, { ...s, size, width })
+}
+
 /** Wrapped text in a column; returns its height. */
 export function para(doc: Pdf, text: string, x: number, y: number, width: number, s: TextStyle & { lineGap?: number } = {}): number {
   style(doc, s)

@@ -160,8 +160,9 @@ function dutyPoint(model: NonNullable<InventedMotor['model']>, index: number): L
  * The sample quote. `lineCount` repeats the four invented items (at rising quantities) so page
  * breaks can be exercised; the default is the four-line quote a person would preview.
  */
-export function sampleQuoteDocument(options: { lineCount?: number } = {}): QuoteDocument {
+export function sampleQuoteDocument(options: { lineCount?: number; quantityFactor?: number } = {}): QuoteDocument {
   const lineCount = options.lineCount ?? 4
+  const factor = options.quantityFactor ?? 1
   const chosen = Array.from({ length: lineCount }, (_, i) => {
     const motor = MOTORS[i % MOTORS.length]
     if (motor === undefined) throw new Error('no invented motors')
@@ -169,7 +170,7 @@ export function sampleQuoteDocument(options: { lineCount?: number } = {}): Quote
   })
   const inputs: QuoteLineInput[] = chosen.map(({ motor, quantity, i }) => ({
     variantId: motor.partNumber,
-    quantity: quantity + 50 * Math.floor(i / MOTORS.length),
+    quantity: (quantity + 50 * Math.floor(i / MOTORS.length)) * factor,
     copperMassKg: motor.copperMassKg,
     options:
       motor.model === null
@@ -232,4 +233,23 @@ export function sampleQuoteDocument(options: { lineCount?: number } = {}): Quote
     },
     copperIndex: { valuePerKg: 1070, baseValuePerKg: 950, stampedOn: '2026-03-02' },
   }
+}
+
+/**
+ * The awkward cases a layout must survive: eight-digit amounts, long names that wrap, a motor that
+ * does not start at low line, the longest notes the draft allows.
+ */
+export function stressQuoteDocument(): QuoteDocument {
+  const doc = sampleQuoteDocument({ lineCount: 6, quantityFactor: 1000 })
+  doc.customer = { ...doc.customer, name: 'Larkspur Air Appliances International Holdings (North America) LLC', contactName: 'Dana Whitcombe-Fairweather' }
+  const first = doc.lines[0]
+  if (first) first.name = `${first.name}, with customer-specific lead exit, double-insulated leads and UL recognised thermal protector`
+  const second = doc.lines[1]
+  if (second?.dutyPoint) {
+    second.partNumber = 'AMW-SP16-120-60-LONG-PART-NO-X'
+    second.dutyPoint.lowLine = { ...second.dutyPoint.lowLine, rpm: 0, flowM3s: 0, staticPa: 0, inputW: null, currentA: null, status: 'no-start' }
+    second.dutyPoint.meetsDuty = false
+  }
+  doc.terms = { ...doc.terms, notes: Array.from({ length: 26 }, (_, i) => `Note ${i + 1}: call-offs are confirmed in writing at least four weeks before the wanted ship date, in lots of the MOQ or more.`).join(' ').slice(0, 4000) }
+  return doc
 }

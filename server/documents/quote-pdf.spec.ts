@@ -4,7 +4,7 @@ import type { QuoteDocument } from '../../shared/contracts/quote.contract'
 import { fromSI } from '../../shared/engineering'
 import { formatDeliveryTerm, formatMoney } from '../../shared/pricing'
 import { woffToSfnt } from './pdf-kit'
-import { sampleQuoteDocument } from './quote-fixture'
+import { sampleQuoteDocument, stressQuoteDocument } from './quote-fixture'
 import { renderQuotePdf, SAFETY_CAUTIONS } from './quote-pdf'
 import { niceAxis, torqueAt } from './torque-chart'
 import { readFileSync } from 'node:fs'
@@ -28,6 +28,9 @@ async function extract(bytes: Buffer): Promise<Extracted> {
   }
 }
 
+/** Rendering plus text extraction takes well under a second alone; shared CI cores can be slow. */
+const SLOW_MACHINE_MS = 30_000
+
 const money = (doc: QuoteDocument, minor: number): string => formatMoney(minor, doc.priced.currency, 'en-US')
 const whole = new Intl.NumberFormat('en-US', { maximumFractionDigits: 0 })
 
@@ -37,7 +40,7 @@ describe('renderQuotePdf', () => {
 
   beforeAll(async () => {
     pdf = await extract(await renderQuotePdf(doc))
-  })
+  }, SLOW_MACHINE_MS)
 
   it('writes a PDF file that embeds the Roboto font', () => {
     expect(pdf.bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-')
@@ -125,7 +128,7 @@ describe('renderQuotePdf with 20 lines', () => {
 
   beforeAll(async () => {
     pdf = await extract(await renderQuotePdf(doc))
-  })
+  }, SLOW_MACHINE_MS)
 
   it('runs over several pages, each with the continued header and page footer', () => {
     expect(pdf.pages.length).toBeGreaterThan(1)
@@ -153,6 +156,18 @@ describe('renderQuotePdf with 20 lines', () => {
     const earlier = pdf.pages.slice(0, -1).join(' ')
     expect(earlier).not.toContain('Total (USD, excluding taxes)')
   })
+})
+
+describe('renderQuotePdf with awkward content', () => {
+  it('wraps long names, prints eight-digit amounts and says when a motor does not start', async () => {
+    const doc = stressQuoteDocument()
+    const pdf = await extract(await renderQuotePdf(doc))
+    expect(pdf.text).toContain('Larkspur Air Appliances International Holdings (North America) LLC')
+    expect(pdf.text).toContain(money(doc, doc.priced.totals.total))
+    expect(doc.priced.totals.total).toBeGreaterThan(100_000_000_00)
+    expect(pdf.text).toContain('does not start')
+    expect(pdf.text).toContain('Note 26:')
+  }, SLOW_MACHINE_MS)
 })
 
 describe('torque chart helpers', () => {

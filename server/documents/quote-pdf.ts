@@ -27,6 +27,7 @@ import {
   CONTENT_WIDTH,
   createPdf,
   drawMark,
+  fitLine,
   FONT,
   FOOTER_Y,
   hRule,
@@ -178,8 +179,9 @@ class Flow {
 function drawContinuationStrip(pdf: Pdf, ctx: Ctx): number {
   const y = MARGIN.top
   drawMark(pdf, CONTENT_LEFT, y - 2, 14)
-  line(pdf, `${ctx.doc.maker.name}`, CONTENT_LEFT + 20, y, { font: FONT.bold, size: 8.5, color: COLOURS.teal })
-  line(pdf, `Quotation ${ctx.ref} for ${ctx.doc.customer.name}`, CONTENT_LEFT, y, { size: 8.5, color: COLOURS.muted, align: 'right', width: CONTENT_WIDTH })
+  const makerWidth = line(pdf, ctx.doc.maker.name, CONTENT_LEFT + 20, y, { font: FONT.bold, size: 8.5, color: COLOURS.teal })
+  const rightX = CONTENT_LEFT + 20 + makerWidth + 24
+  fitLine(pdf, `Quotation ${ctx.ref} for ${ctx.doc.customer.name}`, rightX, y, CONTENT_RIGHT - rightX, { size: 8.5, color: COLOURS.muted, align: 'right' })
   hRule(pdf, y + 16)
   return y + CONTINUATION_HEIGHT
 }
@@ -189,7 +191,7 @@ function drawFooters(pdf: Pdf, ctx: Ctx): void {
   for (let i = range.start; i < range.start + range.count; i++) {
     pdf.switchToPage(i)
     hRule(pdf, FOOTER_Y - 6)
-    line(pdf, `Quotation ${ctx.ref} · issued ${formatIsoDate(ctx.doc.issuedOn)} · valid until ${formatIsoDate(ctx.doc.validUntil)}`, CONTENT_LEFT, FOOTER_Y, {
+    line(pdf, `Spinwright · Quotation ${ctx.ref} · issued ${formatIsoDate(ctx.doc.issuedOn)} · valid until ${formatIsoDate(ctx.doc.validUntil)}`, CONTENT_LEFT, FOOTER_Y, {
       size: 7.5,
       color: COLOURS.muted,
     })
@@ -262,31 +264,24 @@ function partiesBlock(pdf: Pdf, ctx: Ctx): Block {
     },
   ]
   const colWidth = (CONTENT_WIDTH - 24) / 3
-  const rowHeight = 11
-  const height = 14 + Math.max(...columns.map((c) => c.rows.length)) * rowHeight + 4
+  // Rows wrap (a long organisation name takes two lines) and each column is measured.
+  const rowStyle = (bold: boolean | undefined) => ({ font: bold ? FONT.bold : FONT.regular, size: 8.5, lineGap: 0.5 })
+  const heights = columns.map((c) => c.rows.map((row) => paraHeight(pdf, row.text, colWidth, rowStyle(row.bold)) + 1))
+  const height = 13 + Math.max(...heights.map((h) => h.reduce((a, b) => a + b, 0))) + 4
   return {
     height,
     draw: (y) => {
       columns.forEach((column, i) => {
         const x = CONTENT_LEFT + i * (colWidth + 12)
         line(pdf, column.title.toUpperCase(), x, y, { font: FONT.bold, size: 7, color: COLOURS.muted })
+        let ry = y + 13
         column.rows.forEach((row, r) => {
-          fitLine(pdf, row.text, x, y + 13 + r * rowHeight, colWidth, { font: row.bold ? FONT.bold : FONT.regular, size: 8.5 })
+          para(pdf, row.text, x, ry, colWidth, rowStyle(row.bold))
+          ry += heights[i]?.[r] ?? 11
         })
       })
     },
   }
-}
-
-/** One line that shrinks its font a little rather than run into the next column. */
-function fitLine(pdf: Pdf, text: string, x: number, y: number, width: number, s: { font: typeof FONT.regular | typeof FONT.bold; size: number; color?: string }): void {
-  let size = s.size
-  pdf.font(s.font).fontSize(size)
-  while (size > 6 && pdf.widthOfString(text) > width) {
-    size -= 0.25
-    pdf.fontSize(size)
-  }
-  line(pdf, text, x, y, { ...s, size })
 }
 
 function deliveryTermText(ctx: Ctx): string {
@@ -354,7 +349,7 @@ function lineBlock(pdf: Pdf, ctx: Ctx, revisionLine: RevisionLine, priced: Price
         const x = CONTENT_LEFT + col.x
         const font = col.key === 'part' || col.key === 'ext' ? FONT.bold : FONT.regular
         if (wrapped.includes(col.key)) para(pdf, cells[col.key], x, y + 4, col.w, { font, size: ROW_SIZE, lineGap: 0 })
-        else line(pdf, cells[col.key], x, y + 4, { font, size: ROW_SIZE, align: col.align, width: col.w })
+        else fitLine(pdf, cells[col.key], x, y + 4, col.w, { font, size: ROW_SIZE, align: col.align })
       }
 
       // Price build-up (left) and quantity breaks (right).
@@ -366,7 +361,7 @@ function lineBlock(pdf: Pdf, ctx: Ctx, revisionLine: RevisionLine, priced: Price
         const font = row.strong ? FONT.bold : FONT.regular
         if (row.strong) hRule(pdf, ry - 2.5, COLOURS.rule, 0.5, left.x, left.x + left.w)
         fitLine(pdf, row.label, left.x, ry, left.w - 62, { font, size: BUILD_SIZE })
-        line(pdf, row.value, left.x, ry, { font, size: BUILD_SIZE, align: 'right', width: left.w })
+        fitLine(pdf, row.value, left.x + left.w - 60, ry, 60, { font, size: BUILD_SIZE, align: 'right' })
       })
 
       const right = { x: CONTENT_LEFT + 312, w: 200 }
@@ -453,6 +448,8 @@ const flowText = (m3s: number): string => {
   return `${num(m3h, m3h >= 100 ? 0 : 1)} m³/h (${num(fromSI(m3s, 'CFM'), 1)} CFM)`
 }
 const pressureText = (pa: number): string => `${num(pa, pa >= 100 ? 0 : 1)} Pa (${num(fromSI(pa, 'inH2O'), 3)} inH2O)`
+const STATUS_TEXT: Record<string, string> = { running: 'running', 'no-start': 'does not start', stall: 'stalls', stalled: 'stalls' }
+const statusText = (status: string): string => STATUS_TEXT[status] ?? status
 const wattsText = (w: number | null): string => (w === null ? '—' : `${num(w, 1)} W`)
 const ampsText = (a: number | null): string => (a === null ? '—' : `${num(a, a < 0.1 ? 3 : 2)} A`)
 
@@ -493,7 +490,7 @@ function drawDutySection(pdf: Pdf, dp: LineDutyPoint, y: number): void {
   row('Input power', wattsText(dp.nominal.inputW), wattsText(dp.lowLine.inputW))
   row('Current', ampsText(dp.nominal.currentA), ampsText(dp.lowLine.currentA))
   row('Efficiency', dp.nominal.efficiency === null ? '—' : `${num(dp.nominal.efficiency * 100, 0)} %`, '—')
-  row('State', dp.nominal.status, dp.lowLine.status)
+  row('State', statusText(dp.nominal.status), statusText(dp.lowLine.status))
   hRule(pdf, fy, COLOURS.rule, 0.5, fx, CONTENT_RIGHT)
   fy += 5
   line(pdf, 'Meets the duty', fx + 3, fy, { font: FONT.bold, size: 8 })
@@ -542,7 +539,7 @@ function totalsBlock(pdf: Pdf, ctx: Ctx): Block {
         }
         const font = row.strong ? FONT.bold : FONT.regular
         fitLine(pdf, row.label, tableX + 4, ry, tableW - 96, { font, size: row.strong ? 9 : 8.5, color: row.strong ? COLOURS.teal : COLOURS.ink })
-        line(pdf, row.value, tableX, ry, { font, size: row.strong ? 9 : 8.5, color: row.strong ? COLOURS.teal : COLOURS.ink, align: 'right', width: tableW - 4 })
+        fitLine(pdf, row.value, tableX + tableW - 94, ry, 90, { font, size: row.strong ? 9 : 8.5, color: row.strong ? COLOURS.teal : COLOURS.ink, align: 'right' })
       })
     },
   }

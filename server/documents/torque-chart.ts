@@ -93,8 +93,8 @@ export function drawTorqueChart(doc: Pdf, box: Box, dp: LineDutyPoint): void {
   doc.save().circle(nominalPt.x, nominalPt.y, 2.6).fill(COLOURS.teal).restore()
   // Nominal label above the point, low-line label below it, both ending left of the point (the
   // points sit near the right of the plot, close to synchronous speed).
-  pointLabel(doc, rpmText(dp.nominal.rpm), nominalPt.x - 5, Math.max(plot.y, Math.min(nominalPt.y, lowPt.y) - 13))
-  pointLabel(doc, rpmText(dp.lowLine.rpm), lowPt.x - 5, Math.min(plot.y + plot.h - 10, Math.max(nominalPt.y, lowPt.y) + 5))
+  pointLabel(doc, rpmText(dp.nominal.rpm), nominalPt.x - 5, Math.max(plot.y, Math.min(nominalPt.y, lowPt.y) - 13), plot.x + 2)
+  pointLabel(doc, rpmText(dp.lowLine.rpm), lowPt.x - 5, Math.min(plot.y + plot.h - 10, Math.max(nominalPt.y, lowPt.y) + 5), plot.x + 2)
 
   // Legend under the axis label.
   const ly = box.y + box.h - 9
@@ -121,9 +121,11 @@ function polyline(doc: Pdf, points: readonly CurvePoint[], px: (r: number) => nu
   doc.restore()
 }
 
-function pointLabel(doc: Pdf, text: string, rightX: number, y: number): void {
+function pointLabel(doc: Pdf, text: string, rightX: number, y: number, minX: number): void {
   doc.font(FONT.bold).fontSize(6.5)
   const w = doc.widthOfString(text)
+  // A point near zero speed (a motor that does not start) gets its label on its right instead.
+  if (rightX - w < minX) rightX = rightX + w + 10
   doc.save().rect(rightX - w - 2, y - 1, w + 4, 9).fillOpacity(0.85).fill(COLOURS.white).restore()
   line(doc, text, rightX - w, y, { font: FONT.bold, size: 6.5, color: COLOURS.teal })
 }
