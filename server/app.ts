@@ -12,6 +12,17 @@ import { TypeormSessionStore } from './auth/session-store'
 import type { ApiRouter, RouteEntry } from './http/api-router'
 import { apiNotFound, errorHandler } from './http/error-handler'
 import { adminUserRoutes } from './routes/admin-users.routes'
+import { adminOrganisationRoutes } from './routes/admin-organisations.routes'
+import { adminPricingRoutes } from './routes/admin-pricing.routes'
+import { adminAuditRoutes } from './routes/admin-audit.routes'
+import { invitationRoutes } from './routes/invitation.routes'
+import { AdminUserService } from './services/admin-users.service'
+import { AdminOrganisationService } from './services/admin-organisations.service'
+import { AdminPricingService } from './services/admin-pricing.service'
+import { AdminAuditService } from './services/admin-audit.service'
+import { InvitationService } from './services/invitation.service'
+import { adminMailboxRoutes } from './routes/admin-mailbox.routes'
+import { MailboxClient } from './mail/mailbox-client'
 import { authRoutes } from './routes/auth.routes'
 import { catalogueRoutes } from './routes/catalogue.routes'
 import { studyRoutes } from './routes/study.routes'
@@ -36,6 +47,8 @@ export interface AppDeps {
   log?: (error: unknown) => void
   /** Today's date as YYYY-MM-DD; tests move it to check validity and expiry. */
   today?: () => string
+  /** Reader of the captured mailbox; defaults to the fake mail server at MAILBOX_URL. */
+  mailbox?: MailboxClient
 }
 
 export interface AppHandle {
@@ -50,7 +63,7 @@ export const SESSION_COOKIE = 'spinwright.sid'
 // Routes that prove themselves another way (signed payment webhooks) skip the CSRF check.
 const CSRF_EXEMPT = new Set<string>(['/payments/webhook'])
 
-export function createApp({ config, dataSource, clientDir, log = console.error, today }: AppDeps): AppHandle {
+export function createApp({ config, dataSource, clientDir, log = console.error, today, mailbox = new MailboxClient(config.MAILBOX_URL) }: AppDeps): AppHandle {
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', config.TRUST_PROXY ? 1 : false)
@@ -78,6 +91,11 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
   )
 
   const users = new UserService(dataSource)
+  const adminUsers = new AdminUserService(dataSource, portalUrlFrom(config))
+  const adminOrganisations = new AdminOrganisationService(dataSource)
+  const adminPricing = new AdminPricingService(dataSource, today)
+  const adminAudit = new AdminAuditService(dataSource)
+  const invitations = new InvitationService(dataSource)
   const catalogue = new CatalogueService(dataSource)
   const studies = new StudyService(dataSource, catalogue)
   const quotes = new QuoteService({
@@ -126,7 +144,12 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
         windowMinutes: config.SIGNIN_WINDOW_MINUTES,
       },
     }),
-    adminUserRoutes(dataSource),
+    adminUserRoutes(adminUsers),
+    adminOrganisationRoutes(adminOrganisations),
+    adminPricingRoutes(adminPricing),
+    adminAuditRoutes(adminAudit),
+    invitationRoutes(invitations),
+    adminMailboxRoutes(dataSource, mailbox),
     catalogueRoutes(catalogue),
     studyRoutes(studies),
     quoteRoutes(quotes, dataSource),

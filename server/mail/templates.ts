@@ -59,12 +59,14 @@ export interface QuoteAcceptedMailData extends QuoteMailContext {
 export interface DepositReceivedMailData extends QuoteMailContext {
   amount: number
   paidAt: Date | string
-  /** The payment's reference at the payment provider (PaymentIntent id). */
-  paymentReference: string
+  /** The payment's reference at the payment provider (PaymentIntent id), when known. */
+  paymentReference?: string | null
   /** The order the deposit released, once it exists. */
   orderNumber: string | null
-  /** Left to pay after the deposit. */
-  balance: number
+  /** The buyer's purchase order, when known. */
+  purchaseOrderRef?: string | null
+  /** Left to pay after the deposit, when known. */
+  balance?: number | null
   pdf?: QuotePdf
 }
 
@@ -149,10 +151,11 @@ export function depositReceivedMail(data: DepositReceivedMailData): OutgoingMail
   const figures: Figure[] = [
     ['Amount received', money(data.amount)],
     ['Received on', formatInstant(data.paidAt)],
-    ['Payment reference', data.paymentReference],
+    ...optional('Payment reference', data.paymentReference),
     ['Quote', `${data.quoteNumber} (revision ${data.revision})`],
-    ...(data.orderNumber ? ([['Order', data.orderNumber]] satisfies Figure[]) : []),
-    ['Balance after the deposit', money(data.balance)],
+    ...optional('Purchase order', data.purchaseOrderRef),
+    ...optional('Order', data.orderNumber),
+    ...optional('Balance after the deposit', data.balance === null || data.balance === undefined ? null : money(data.balance)),
   ]
   return render(data, {
     kind: 'deposit-received',
@@ -275,6 +278,10 @@ function render(context: QuoteMailContext, parts: MailParts): OutgoingMail {
     html,
     attachments: parts.attachments,
   }
+}
+
+function optional(label: string, value: string | null | undefined): Figure[] {
+  return value ? [[label, value]] : []
 }
 
 function quoteLink(context: QuoteMailContext): string {
