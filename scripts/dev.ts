@@ -12,7 +12,7 @@ const apiPort = Number(process.env.API_PORT ?? 8081)
 
 async function main(): Promise<void> {
   const ports = { app: apiPort, db: Number(process.env.DB_PORT ?? 3307), smtp: 2525, mailbox: 2580, payments: 12111 }
-  const env = { ...localEnvironment(dataDir, ports, 'spinwright'), PORT: String(apiPort), PUBLIC_URL: 'http://127.0.0.1:5173' }
+  const env: NodeJS.ProcessEnv = { ...localEnvironment(dataDir, ports, 'spinwright'), PORT: String(apiPort), PUBLIC_URL: 'http://127.0.0.1:5173' }
   const maria = await startMaria({ dir: path.join(dataDir, 'mariadb'), port: ports.db, database: 'spinwright', user: 'spinwright', password: env.DB_PASSWORD ?? '' })
   const fakes = await startFakes(env)
   const { prepareDatabase } = await import('../server/db/prepare')
