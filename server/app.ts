@@ -21,6 +21,8 @@ import { AdminOrganisationService } from './services/admin-organisations.service
 import { AdminPricingService } from './services/admin-pricing.service'
 import { AdminAuditService } from './services/admin-audit.service'
 import { InvitationService } from './services/invitation.service'
+import { adminMailboxRoutes } from './routes/admin-mailbox.routes'
+import { MailboxClient } from './mail/mailbox-client'
 import { authRoutes } from './routes/auth.routes'
 import { catalogueRoutes } from './routes/catalogue.routes'
 import { studyRoutes } from './routes/study.routes'
@@ -45,6 +47,8 @@ export interface AppDeps {
   log?: (error: unknown) => void
   /** Today's date as YYYY-MM-DD; tests move it to check validity and expiry. */
   today?: () => string
+  /** Reader of the captured mailbox; defaults to the fake mail server at MAILBOX_URL. */
+  mailbox?: MailboxClient
 }
 
 export interface AppHandle {
@@ -59,7 +63,7 @@ export const SESSION_COOKIE = 'spinwright.sid'
 // Routes that prove themselves another way (signed payment webhooks) skip the CSRF check.
 const CSRF_EXEMPT = new Set<string>(['/payments/webhook'])
 
-export function createApp({ config, dataSource, clientDir, log = console.error, today }: AppDeps): AppHandle {
+export function createApp({ config, dataSource, clientDir, log = console.error, today, mailbox = new MailboxClient(config.MAILBOX_URL) }: AppDeps): AppHandle {
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', config.TRUST_PROXY ? 1 : false)
@@ -145,6 +149,7 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
     adminPricingRoutes(adminPricing),
     adminAuditRoutes(adminAudit),
     invitationRoutes(invitations),
+    adminMailboxRoutes(dataSource, mailbox),
     catalogueRoutes(catalogue),
     studyRoutes(studies),
     quoteRoutes(quotes, dataSource),
