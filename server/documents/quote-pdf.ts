@@ -263,20 +263,22 @@ function partiesBlock(pdf: Pdf, ctx: Ctx): Block {
       ],
     },
   ]
-  const colWidth = (CONTENT_WIDTH - 24) / 3
+  // The sales engineer's column holds short rows; the other two get the room.
+  const widths = [0.36, 0.28, 0.36].map((share) => share * (CONTENT_WIDTH - 24))
+  const colX = (i: number): number => CONTENT_LEFT + widths.slice(0, i).reduce((a, w) => a + w + 12, 0)
   // Rows wrap (a long organisation name takes two lines) and each column is measured.
   const rowStyle = (bold: boolean | undefined) => ({ font: bold ? FONT.bold : FONT.regular, size: 8.5, lineGap: 0.5 })
-  const heights = columns.map((c) => c.rows.map((row) => paraHeight(pdf, row.text, colWidth, rowStyle(row.bold)) + 1))
+  const heights = columns.map((c, i) => c.rows.map((row) => paraHeight(pdf, row.text, widths[i] ?? 150, rowStyle(row.bold)) + 1))
   const height = 13 + Math.max(...heights.map((h) => h.reduce((a, b) => a + b, 0))) + 4
   return {
     height,
     draw: (y) => {
       columns.forEach((column, i) => {
-        const x = CONTENT_LEFT + i * (colWidth + 12)
+        const x = colX(i)
         line(pdf, column.title.toUpperCase(), x, y, { font: FONT.bold, size: 7, color: COLOURS.muted })
         let ry = y + 13
         column.rows.forEach((row, r) => {
-          para(pdf, row.text, x, ry, colWidth, rowStyle(row.bold))
+          para(pdf, row.text, x, ry, widths[i] ?? 150, rowStyle(row.bold))
           ry += heights[i]?.[r] ?? 11
         })
       })
