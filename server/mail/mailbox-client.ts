@@ -71,7 +71,7 @@ export class MailboxClient {
     const length = Number(response.headers.get('content-length'))
     const disposition = response.headers.get('content-disposition') ?? ''
     return {
-      body: Readable.fromWeb(response.body),
+      body: Readable.from(chunksOf(response.body)),
       contentType: response.headers.get('content-type') ?? 'application/octet-stream',
       disposition: disposition.startsWith('attachment') ? disposition : `attachment; filename="attachment-${index + 1}.bin"`,
       size: Number.isFinite(length) && length >= 0 ? length : null,
@@ -102,5 +102,24 @@ export class MailboxClient {
     // The fake answers 400 for a malformed id and 404 for an unknown one: both mean "no such message".
     if (response.status === 400 || response.status === 404) throw new NotFoundError('Message')
     throw new MailboxUnavailableError(this.baseUrl)
+  }
+}
+
+/** A web stream as an async iterable (Readable.fromWeb's typing differs between the DOM and Node libs). */
+async function* chunksOf(stream: ReadableStream<Uint8Array>): AsyncGenerator<Uint8Array> {
+  const reader = stream.getReader()
+  let finished = false
+  try {
+    for (;;) {
+      const { done, value } = await reader.read()
+      if (done) {
+        finished = true
+        return
+      }
+      yield value
+    }
+  } finally {
+    // The download was abandoned half-way: stop reading from the fake too.
+    if (!finished) await reader.cancel().catch(() => undefined)
   }
 }
