@@ -5,6 +5,7 @@ import type { Server } from 'node:http'
 import { loadConfig } from './config'
 import { createDataSource } from './db/data-source'
 import { createApp } from './app'
+import { createMailService } from './mail'
 
 export interface RunningServer {
   server: Server
@@ -22,12 +23,16 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env): Promise
     const listening = handle.app.listen(config.PORT, config.HOST, () => resolve(listening))
   })
   const url = `http://${config.HOST}:${config.PORT}`
+  // Every app process runs an outbox worker; SKIP LOCKED claims keep them from sending a row twice.
+  const mail = createMailService(dataSource, config)
+  mail.worker.start()
   return {
     server,
     url,
     stop: async () => {
       await new Promise<void>((resolve) => server.close(() => resolve()))
       server.closeAllConnections()
+      await mail.stop()
       handle.close()
       await dataSource.destroy()
     },
