@@ -24,7 +24,7 @@ export default defineConfig({
     rollupOptions: {
       output: {
         manualChunks(id: string) {
-          if (id.includes('node_modules/echarts') || id.includes('node_modules/zrender') || id.includes('vue-echarts')) return 'charts'
+          if (id.includes('node_modules/echarts/') || id.includes('node_modules/zrender/')) return 'charts'
           return undefined
         },
       },

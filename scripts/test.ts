@@ -121,7 +121,7 @@ async function main(): Promise<number> {
         mailbox: await freePort(2680),
         payments: await freePort(12211),
       }
-      const env = {
+      const env: NodeJS.ProcessEnv = {
         ...localEnvironment(path.join(testDir, 'app'), ports, 'spinwright_e2e'),
         DB_PASSWORD: 'spinwright-test',
         SIGNIN_LIMIT_PER_IP: '1000',
@@ -134,7 +134,10 @@ async function main(): Promise<number> {
       await createDatabase(maria, 'spinwright_e2e')
       const { prepareDatabase } = await import('../server/db/prepare')
       await prepareDatabase(env)
-      buildClientIfStale()
+      // A build of this run's own: colleagues' runs and `npm start` keep their dist/ untouched.
+      const clientDir = path.join(testDir, 'dist')
+      buildClientIfStale(clientDir)
+      env.CLIENT_DIR = clientDir
       if (existsSync('server/fakes/main.ts')) fakes = await startFakes(env)
       server = spawn(bin('tsx'), ['--tsconfig', 'tsconfig.server.json', 'server/main.ts'], { env, stdio: ['ignore', 'pipe', 'inherit'] })
       await waitForLine(server, 'API listening', 60_000)

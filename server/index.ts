@@ -18,7 +18,7 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env): Promise
   const dataSource = createDataSource(config)
   await dataSource.initialize()
   await dataSource.runMigrations({ transaction: 'each' })
-  const handle = createApp({ config, dataSource, clientDir: path.resolve('dist') })
+  const handle = createApp({ config, dataSource, clientDir: path.resolve(env.CLIENT_DIR ?? 'dist') })
   const server = await new Promise<Server>((resolve) => {
     const listening = handle.app.listen(config.PORT, config.HOST, () => resolve(listening))
   })

@@ -39,15 +39,15 @@ function newestMtime(entry: string): number {
   return newest
 }
 
-/** Builds the SPA with Vite when dist/ is missing or older than its sources. */
-export function buildClientIfStale(): void {
-  const built = newestMtime(path.join(ROOT, 'dist', 'index.html'))
+/** Builds the SPA with Vite into `outDir` (default dist/) when it is missing or older than its sources. */
+export function buildClientIfStale(outDir = path.join(ROOT, 'dist')): void {
+  const built = newestMtime(path.join(outDir, 'index.html'))
   const sources = Math.max(
     ...['src', 'shared', 'public', 'index.html', 'vite.config.ts', 'package-lock.json'].map((entry) => newestMtime(path.join(ROOT, entry))),
   )
   if (built > sources) return
   say('building the client (vite build) ...')
-  const result = spawnSync(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'], { stdio: 'inherit' })
+  const result = spawnSync(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn', '--outDir', outDir, '--emptyOutDir'], { stdio: 'inherit' })
   if (result.status !== 0) throw new Error('vite build failed')
 }
 
