@@ -13,7 +13,7 @@ async function pickRangeHoodFan(page: Page): Promise<string> {
 
 test.describe('the buyer path through a duty study', () => {
   test('a buyer builds a range-hood study on 120 V 60 Hz, runs, compares, exports, saves, reopens and shares it', async ({ page }) => {
-    test.setTimeout(120_000)
+    test.setTimeout(300_000)
     await signIn(page, 'buyer@larkspur.test', '/studies')
     await expect(page.getByTestId('studies-title')).toBeVisible()
     await page.getByTestId('studies-new').click()
