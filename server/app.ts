@@ -38,6 +38,11 @@ import { UserService } from './services/user.service'
 import { createPaymentServices, paymentWebhookHandler, WEBHOOK_PATH } from './payments'
 import { orderRoutes } from './routes/order.routes'
 import { paymentRoutes } from './routes/payment.routes'
+import { adminCatalogueRoutes, datasheetDownloadRoutes } from './routes/admin-catalogue.routes'
+import { fanCurveRoutes } from './routes/fan-curve.routes'
+import { CatalogueImportService } from './imports/catalogue-import.service'
+import { PerformanceUploadService } from './imports/performance-upload.service'
+import { DatasheetService } from './files/datasheet.service'
 
 export interface AppDeps {
   config: Config
@@ -98,6 +103,7 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
   const invitations = new InvitationService(dataSource)
   const catalogue = new CatalogueService(dataSource)
   const studies = new StudyService(dataSource, catalogue)
+  const datasheets = new DatasheetService(dataSource, config.DATA_DIR, log)
   const quotes = new QuoteService({
     dataSource,
     catalogue,
@@ -151,6 +157,9 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
     invitationRoutes(invitations),
     adminMailboxRoutes(dataSource, mailbox),
     catalogueRoutes(catalogue),
+    datasheetDownloadRoutes(datasheets),
+    adminCatalogueRoutes({ imports: new CatalogueImportService(dataSource), performance: new PerformanceUploadService(dataSource), datasheets }),
+    fanCurveRoutes(),
     studyRoutes(studies),
     quoteRoutes(quotes, dataSource),
     paymentRoutes(payments.deposits),

@@ -9,7 +9,7 @@ import type {
   VariantRow,
 } from '../../shared/contracts/catalogue.contract'
 import { preparePerformance, type CatalogueEntry } from '../../shared/selection/run-selection'
-import { CatalogueRevision, DemoFan, MotorPerformance, MotorVariant } from '../db/entities'
+import { CatalogueRevision, Datasheet, DemoFan, MotorPerformance, MotorVariant } from '../db/entities'
 import { NotFoundError } from '../http/errors'
 
 function escapeLike(term: string): string {
@@ -116,6 +116,10 @@ export class CatalogueService {
     const performance = await this.dataSource
       .getRepository(MotorPerformance)
       .find({ where: { variantId: variant.id, current: true }, order: { hz: 'ASC', volts: 'ASC', tap: 'ASC' } })
+    // The variant's own datasheets and its family's.
+    const datasheets = await this.dataSource
+      .getRepository(Datasheet)
+      .find({ where: [{ variantId: variant.id }, { familyId: variant.familyId }], order: { createdAt: 'DESC' } })
     return {
       ...toVariantRow(variant),
       ratedCurrentA: variant.ratedCurrentA,
@@ -147,7 +151,7 @@ export class CatalogueService {
         motor: row.motor,
         createdAt: row.createdAt.toISOString(),
       })),
-      datasheets: [],
+      datasheets: datasheets.map((sheet) => ({ id: sheet.id, originalName: sheet.originalName, sizeBytes: sheet.sizeBytes, uploadedAt: sheet.createdAt.toISOString() })),
       updatedAt: variant.updatedAt.toISOString(),
     }
   }
