@@ -26,10 +26,19 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env): Promise
   // Every app process runs an outbox worker; SKIP LOCKED claims keep them from sending a row twice.
   const mail = createMailService(dataSource, config)
   mail.worker.start()
+  // Hourly: issued quotes past their validity expire; buyers of quotes about to expire are reminded.
+  const housekeeping = async () => {
+    await handle.services.quotes.expireDue()
+    await handle.services.quotes.sendExpiryReminders()
+  }
+  const timer = setInterval(() => void housekeeping().catch((error: unknown) => console.error('quote housekeeping failed', error)), 60 * 60 * 1000)
+  timer.unref()
+  void housekeeping().catch((error: unknown) => console.error('quote housekeeping failed', error))
   return {
     server,
     url,
     stop: async () => {
+      clearInterval(timer)
       await new Promise<void>((resolve) => server.close(() => resolve()))
       server.closeAllConnections()
       await mail.stop()

@@ -2,7 +2,8 @@
 import type { EntityManager } from 'typeorm'
 import type { QuoteDocument } from '../../shared/contracts/quote.contract'
 import { enqueueMail } from '../mail/outbox'
-import { quoteAcceptedMail, quoteIssuedMail } from '../mail/templates'
+import { expiryReminderMail, quoteAcceptedMail, quoteIssuedMail } from '../mail/templates'
+import { MailOutbox } from '../db/entities/mail-outbox.entity'
 import type { QuoteMailer } from './quote.service'
 
 function context(doc: QuoteDocument, quoteId: string, portalUrl: string, buyerEmail: string) {
@@ -21,6 +22,15 @@ function context(doc: QuoteDocument, quoteId: string, portalUrl: string, buyerEm
 
 export function outboxQuoteMailer(portalUrl: string): QuoteMailer {
   return {
+    async reminder(manager: EntityManager, { doc, to, daysLeft, quoteId }) {
+      const reference = `${quoteId}:${doc.revision}`
+      if (await manager.existsBy(MailOutbox, { kind: 'quote-expiry-reminder', reference })) return false
+      for (const email of to) {
+        const mail = expiryReminderMail({ ...context(doc, quoteId, portalUrl, email), validUntil: doc.validUntil, daysLeft, total: doc.priced.totals.total })
+        await enqueueMail(manager, { ...mail, reference })
+      }
+      return true
+    },
     async issued(manager: EntityManager, { doc, to, pdfPath, quoteId }) {
       for (const email of to) {
         await enqueueMail(

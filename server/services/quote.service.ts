@@ -63,6 +63,7 @@ export type PdfRenderer = (doc: QuoteDocument) => Promise<Buffer>
 
 /** Mail side effects of the lifecycle, written to the outbox inside the caller's transaction. */
 export interface QuoteMailer {
+  reminder?(manager: EntityManager, args: { doc: QuoteDocument; to: string[]; daysLeft: number; quoteId: string }): Promise<boolean>
   issued(manager: EntityManager, args: { doc: QuoteDocument; to: string[]; pdfPath: string; quoteId: string }): Promise<void>
   accepted(manager: EntityManager, args: { doc: QuoteDocument; to: string[]; acceptedByName: string; purchaseOrderRef: string; quoteId: string }): Promise<void>
 }
@@ -560,6 +561,30 @@ export class QuoteService {
       .where('state = :state AND validUntil < :today', { state: 'issued', today })
       .execute()
     return result.affected ?? 0
+  }
+
+  /**
+   * Reminds the buyers of issued quotes that expire within `daysBefore` days, once per revision
+   * (the outbox row with kind quote-expiry-reminder and the revision's number marks it done).
+   */
+  async sendExpiryReminders(daysBefore = 5, today = this.today()): Promise<number> {
+    const horizon = addDays(today, daysBefore)
+    const due = await this.dataSource
+      .getRepository(QuoteRecordEntity)
+      .createQueryBuilder('quote')
+      .where('quote.state = :state AND quote.validUntil >= :today AND quote.validUntil <= :horizon', { state: 'issued', today, horizon })
+      .getMany()
+    let sent = 0
+    for (const quote of due) {
+      await this.dataSource.transaction(async (tx) => {
+        const revision = await tx.findOneBy(QuoteRevisionRecord, { quoteId: quote.id, letter: quote.currentRevision ?? '' })
+        if (!revision || !this.deps.mailer.reminder) return
+        const to = await this.buyerEmails(tx, quote.organisationId)
+        const daysLeft = Math.round((Date.parse(revision.validUntil) - Date.parse(today)) / 86_400_000)
+        if (to.length > 0 && (await this.deps.mailer.reminder(tx, { doc: revision.document, to, daysLeft, quoteId: quote.id }))) sent += 1
+      })
+    }
+    return sent
   }
 
   private async audit(manager: EntityManager, user: SessionUser, quoteId: string, action: string, detail: Record<string, unknown>): Promise<void> {

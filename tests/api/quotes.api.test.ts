@@ -189,6 +189,23 @@ describe('issuing, revisions and acceptance', () => {
     expect(accept.status).toBe(409)
   })
 
+  it('reminds the buyers once before an issued quote expires', async () => {
+    const id = await requestQuote()
+    const quote = await current(id)
+    const issued = await sales.agent.post(`/api/v1/quotes/${id}/issue`).set('X-CSRF-Token', sales.csrf).send({ version: quote.version })
+    const validUntil: string = issued.body.current.validUntil
+    const twoDaysBefore = new Date(`${validUntil}T00:00:00Z`)
+    twoDaysBefore.setUTCDate(twoDaysBefore.getUTCDate() - 2)
+    const today = twoDaysBefore.toISOString().slice(0, 10)
+    const service = ctx.handle.services.quotes
+    expect(await service.sendExpiryReminders(5, today)).toBeGreaterThanOrEqual(1)
+    const reminders = await ctx.dataSource.getRepository(MailOutbox).findBy({ kind: 'quote-expiry-reminder', reference: `${id}:A` })
+    expect(reminders.length).toBeGreaterThanOrEqual(1)
+    expect(reminders[0]?.subject).toMatch(/expire|valid/i)
+    await service.sendExpiryReminders(5, today)
+    expect(await ctx.dataSource.getRepository(MailOutbox).countBy({ kind: 'quote-expiry-reminder', reference: `${id}:A` })).toBe(reminders.length)
+  })
+
   it('answers 400 naming the fields when the quote cannot be priced (quantity below MOQ)', async () => {
     const id = await requestQuote()
     const quote = await current(id)
