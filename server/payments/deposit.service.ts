@@ -15,6 +15,8 @@ export interface DepositServiceDeps {
   /** Origin of the SPA the buyer comes back to (PUBLIC_URL, else http://HOST:PORT). */
   publicUrl: string
   log: (error: unknown) => void
+  /** Applies a session the payment API reports paid (see PaymentWebhookService.reconcile). */
+  reconcile?: (checkoutSessionId: string) => Promise<unknown>
 }
 
 const UNAVAILABLE_MESSAGE =
@@ -120,11 +122,24 @@ export class DepositService {
   /** State of the latest deposit attempt, for the page the buyer returns to (and for sales). */
   async status(user: SessionUser, quoteId: string): Promise<DepositStatusView> {
     const manager = this.deps.dataSource.manager
-    const quote = await manager.getRepository(QuoteRecordEntity).findOne({ where: { id: quoteId } })
+    const quotes = manager.getRepository(QuoteRecordEntity)
+    const deposits = manager.getRepository(DepositPayment)
+    let quote = await quotes.findOne({ where: { id: quoteId } })
     if (!quote || !canSee(user, quote)) throw new NotFoundError('Quote')
-    const latest = await manager.getRepository(DepositPayment).findOne({ where: { quoteId }, order: { createdAt: 'DESC' } })
+    let latest = await deposits.findOne({ where: { quoteId }, order: { createdAt: 'DESC' } })
+    if (latest?.status === 'open' && this.deps.reconcile) {
+      // The return page polls this: if the webhook is late or was lost, ask the payment API directly.
+      try {
+        await this.deps.reconcile(latest.checkoutSessionId)
+        quote = (await quotes.findOne({ where: { id: quoteId } })) ?? quote
+        latest = await deposits.findOne({ where: { id: latest.id } })
+      } catch (error) {
+        // The answer from our own records is still right; only a bug is worth logging.
+        if (!isPaymentApiDown(error) && !isMissingResource(error)) this.deps.log(error)
+      }
+    }
     const order = await manager.getRepository(SalesOrder).findOne({ where: { quoteId } })
-    const paid = await manager.getRepository(DepositPayment).exists({ where: { paidQuoteId: quoteId } })
+    const paid = await deposits.exists({ where: { paidQuoteId: quoteId } })
     return {
       quoteId,
       quoteState: quote.state,

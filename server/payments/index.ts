@@ -21,9 +21,7 @@ export function createPaymentServices(config: Config, dataSource: DataSource, lo
   const stripe = createStripeClient(config)
   const orders = new OrderService(dataSource)
   const publicUrl = config.PUBLIC_URL ?? `http://${config.HOST}:${config.PORT}`
-  return {
-    orders,
-    deposits: new DepositService({ dataSource, stripe, publicUrl, log }),
-    webhooks: new PaymentWebhookService({ dataSource, stripe, webhookSecret: config.STRIPE_WEBHOOK_SECRET, orders, log }),
-  }
+  const webhooks = new PaymentWebhookService({ dataSource, stripe, webhookSecret: config.STRIPE_WEBHOOK_SECRET, orders, log })
+  const deposits = new DepositService({ dataSource, stripe, publicUrl, log, reconcile: (sessionId) => webhooks.reconcile(sessionId) })
+  return { orders, deposits, webhooks }
 }

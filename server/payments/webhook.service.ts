@@ -41,12 +41,30 @@ export class PaymentWebhookService {
   }
 
   async handle(event: Stripe.Event): Promise<WebhookOutcome> {
+    try {
+      return { duplicate: false, effect: await this.inTransaction((manager) => this.apply(manager, event)) }
+    } catch (error) {
+      if (error instanceof DuplicateEvent) return { duplicate: true, effect: 'none' }
+      throw error
+    }
+  }
+
+  /**
+   * For a webhook that never arrived (the app was down through all the payment API's retries): reads
+   * the session from the payment API itself, over our authenticated client, and applies it when
+   * paid. Safe to call any number of times; a later delivery of the real event then changes nothing.
+   */
+  async reconcile(checkoutSessionId: string): Promise<WebhookOutcome['effect']> {
+    const session = await this.deps.stripe.checkout.sessions.retrieve(checkoutSessionId)
+    if (session.status !== 'complete' || session.payment_status !== 'paid') return 'none'
+    return this.inTransaction((manager) => this.markPaid(manager, `reconcile:${checkoutSessionId}`, session))
+  }
+
+  private async inTransaction<T>(work: (manager: EntityManager) => Promise<T>): Promise<T> {
     for (let attempt = 1; ; attempt += 1) {
       try {
-        const effect = await this.deps.dataSource.transaction((manager) => this.apply(manager, event))
-        return { duplicate: false, effect }
+        return await this.deps.dataSource.transaction(work)
       } catch (error) {
-        if (error instanceof DuplicateEvent) return { duplicate: true, effect: 'none' }
         if (attempt >= MAX_ATTEMPTS || !isRetryable(error)) throw error
       }
     }

@@ -20,6 +20,8 @@ let stripe: Stripe
 let customer: Organisation
 let buyer: User
 let sales: User
+/** While true the app's port answers 503 to webhook deliveries, as if the app were down. */
+let refuseWebhooks = false
 
 async function listen(handler: (req: IncomingMessage, res: ServerResponse) => void): Promise<{ server: Server; port: number }> {
   const server = createServer(handler)
@@ -33,7 +35,7 @@ beforeAll(async () => {
   // The fake needs the app's webhook URL and the app needs the fake's: open the app's port first.
   let app: ((req: IncomingMessage, res: ServerResponse) => void) | undefined
   const listening = await listen((req, res) => {
-    if (app) app(req, res)
+    if (app && !(refuseWebhooks && req.url?.startsWith('/api/payments/webhook'))) app(req, res)
     else res.writeHead(503).end()
   })
   appServer = listening.server
@@ -217,6 +219,39 @@ describe('POST /api/v1/quotes/:id/deposit', () => {
     expect(next.status).toBe(201)
     expect(next.body.url).not.toBe(started.body.url)
     expect((await depositsOf(ctx.dataSource, accepted.quote.id)).map((row) => row.status)).toEqual(['expired', 'open'])
+  })
+
+  it('when every webhook delivery failed, polling the status asks the payment API and applies the payment once', async () => {
+    const accepted = await acceptedQuote({ total: 900_000, depositAmount: 270_000 })
+    const agent = await signInAs(ctx, buyer)
+    const started = await startDeposit(agent, accepted.quote.id)
+    const sessionId = sessionIdOf(started.body.url)
+    refuseWebhooks = true
+    try {
+      expect((await pay(started.body.url, CARD_OK)).status).toBe(303)
+      const lost = await until(
+        async () => fake.fake.events().find((event) => event.sessionId === sessionId && event.type === 'checkout.session.completed'),
+        (event) => event !== undefined && event.deliveries.length >= 2,
+        'the fake to give up delivering',
+      )
+      expect(lost?.delivered).toBe(false)
+      expect(await depositsOf(ctx.dataSource, accepted.quote.id)).toMatchObject([{ status: 'open' }])
+      // A new start while the session is paid but unconfirmed is refused, not a second session.
+      const early = await startDeposit(agent, accepted.quote.id)
+      expect(early.status).toBe(409)
+      expect(early.body.error.code).toBe('deposit_processing')
+
+      const status = await agent.agent.get(`/api/v1/quotes/${accepted.quote.id}/deposit`).expect(200)
+
+      expect(status.body).toMatchObject({ quoteState: 'deposit-paid', payable: false, deposit: { status: 'paid' }, order: { number: expect.stringMatching(/^SO-/) } })
+      refuseWebhooks = false
+      const resent = await fake.resend(lost?.id ?? '')
+      expect(resent).toMatchObject({ delivered: true, status: 200 })
+      expect(await ctx.dataSource.getRepository(SalesOrder).countBy({ quoteId: accepted.quote.id })).toBe(1)
+      expect(await ctx.dataSource.getRepository(AuditEntry).countBy({ entityId: accepted.quote.id, action: 'deposit.paid' })).toBe(1)
+    } finally {
+      refuseWebhooks = false
+    }
   })
 
   it('refuses a second deposit once the first is paid (409 deposit_already_paid) and writes nothing', async () => {
