@@ -1,6 +1,7 @@
 // Wires the payment side (SDK client, deposits, webhook, orders) from the configuration.
 import type { DataSource } from 'typeorm'
 import type { Config } from '../config'
+import { portalUrlFrom } from '../mail'
 import { DepositService } from './deposit.service'
 import { OrderService } from './order.service'
 import { createStripeClient } from './stripe-client'
@@ -20,8 +21,8 @@ export interface PaymentServices {
 export function createPaymentServices(config: Config, dataSource: DataSource, log: (error: unknown) => void): PaymentServices {
   const stripe = createStripeClient(config)
   const orders = new OrderService(dataSource)
-  const publicUrl = config.PUBLIC_URL ?? `http://${config.HOST}:${config.PORT}`
-  const webhooks = new PaymentWebhookService({ dataSource, stripe, webhookSecret: config.STRIPE_WEBHOOK_SECRET, orders, log })
+  const publicUrl = portalUrlFrom(config)
+  const webhooks = new PaymentWebhookService({ dataSource, stripe, webhookSecret: config.STRIPE_WEBHOOK_SECRET, orders, portalUrl: publicUrl, log })
   const deposits = new DepositService({ dataSource, stripe, publicUrl, log, reconcile: (sessionId) => webhooks.reconcile(sessionId) })
   return { orders, deposits, webhooks }
 }

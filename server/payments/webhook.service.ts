@@ -2,7 +2,7 @@
 // payment_event in the same transaction as its effect, so a duplicate or a replay changes nothing.
 import type Stripe from 'stripe'
 import type { DataSource, EntityManager } from 'typeorm'
-import { AuditEntry, DepositPayment, PaymentEvent, QuoteRecordEntity, User } from '../db/entities'
+import { AuditEntry, DepositPayment, Organisation, PaymentEvent, QuoteAcceptance, QuoteRecordEntity, QuoteRevisionRecord, SalesOrder, User } from '../db/entities'
 import { AppError } from '../http/errors'
 import { acceptedRevision } from './deposit.service'
 import { enqueueDepositReceipt } from './deposit-mail'
@@ -13,7 +13,19 @@ export interface PaymentWebhookDeps {
   stripe: Stripe
   webhookSecret: string
   orders: OrderService
+  /** Base address of the portal, for the links in the receipt. */
+  portalUrl: string
   log: (error: unknown) => void
+}
+
+interface PaidFacts {
+  quote: QuoteRecordEntity
+  acceptance: QuoteAcceptance
+  revision: QuoteRevisionRecord
+  order: SalesOrder
+  deposit: DepositPayment
+  paidAt: Date
+  paymentIntentId: string | null
 }
 
 export interface WebhookOutcome {
@@ -157,22 +169,41 @@ export class PaymentWebhookService {
     })
     await audit.save(audit.create({ actorId: null, actorEmail: null, entity: 'quote', entityId: quote.id, action: 'deposit.paid', detail: { ...detail, orderId: order.id, orderNumber: order.number } }))
 
-    const users = manager.getRepository(User)
-    const buyer = await users.findOne({ where: { id: acceptance.acceptedById } })
-    const salesEngineer = quote.salesEngineerId ? await users.findOne({ where: { id: quote.salesEngineerId } }) : null
-    await enqueueDepositReceipt(manager, {
-      quoteId: quote.id,
-      quoteNumber: quote.number ?? revision.fullNumber,
-      revision: acceptance.revision,
-      orderNumber: order.number,
-      amount: deposit.amount,
-      currency: deposit.currency,
-      paidAt,
-      purchaseOrderRef: acceptance.purchaseOrderRef,
-      to: uniqueEmails([buyer?.email, session.customer_details?.email ?? session.customer_email]),
-      cc: uniqueEmails([salesEngineer?.email]),
-    })
+    await this.sendReceipt(manager, { quote, acceptance, revision, order, deposit, paidAt, paymentIntentId })
     return 'deposit-paid'
+  }
+
+  private async sendReceipt(manager: EntityManager, paid: PaidFacts): Promise<void> {
+    const users = manager.getRepository(User)
+    const buyer = await users.findOne({ where: { id: paid.acceptance.acceptedById } })
+    // The engineer on the quote, else the one who issued the accepted revision.
+    const salesEngineer = await users.findOne({ where: { id: paid.quote.salesEngineerId ?? paid.revision.issuedById } })
+    const organisation = await manager.getRepository(Organisation).findOne({ where: { id: paid.quote.organisationId } })
+    if (!buyer || !salesEngineer || !organisation) {
+      this.deps.log(new Error(`deposit receipt for quote ${paid.quote.id} not sent: its buyer, sales engineer or organisation is missing`))
+      return
+    }
+    await enqueueDepositReceipt(
+      manager,
+      {
+        portalUrl: this.deps.portalUrl,
+        quoteId: paid.quote.id,
+        quoteNumber: paid.revision.fullNumber,
+        revision: paid.acceptance.revision,
+        customerName: organisation.name,
+        buyer: { name: buyer.name, email: buyer.email },
+        salesEngineer: { name: salesEngineer.name, email: salesEngineer.email },
+        orderNumber: paid.order.number,
+        amount: paid.deposit.amount,
+        balance: paid.order.total - paid.deposit.amount,
+        currency: paid.deposit.currency,
+        paidAt: paid.paidAt,
+        paymentReference: paid.paymentIntentId,
+        purchaseOrderRef: paid.acceptance.purchaseOrderRef,
+        pdfFile: paid.revision.pdfFile,
+      },
+      this.deps.log,
+    )
   }
 
   private async markExpired(manager: EntityManager, session: Stripe.Checkout.Session): Promise<WebhookOutcome['effect']> {
@@ -187,12 +218,6 @@ export class PaymentWebhookService {
     await deposits.save(deposit)
     return 'deposit-expired'
   }
-}
-
-function uniqueEmails(values: (string | null | undefined)[]): string[] {
-  const seen = new Map<string, string>()
-  for (const value of values) if (value) seen.set(value.toLowerCase(), value)
-  return [...seen.values()]
 }
 
 function driverCode(error: unknown): string | undefined {

@@ -4,7 +4,7 @@ import { createServer, type IncomingMessage, type Server, type ServerResponse } 
 import Stripe from 'stripe'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import request from 'supertest'
-import { AuditEntry, DepositPayment, Organisation, PaymentEvent, QuoteRecordEntity, SalesOrder, User } from '../../server/db/entities'
+import { AuditEntry, DepositPayment, MailOutbox, Organisation, PaymentEvent, QuoteRecordEntity, SalesOrder, User } from '../../server/db/entities'
 import { startFakePayments, type FakePaymentsHandle } from '../../server/fakes/payments/fake-payments'
 import { STRIPE_KEY, WEBHOOK_SECRET, createAcceptedQuote, depositsOf, postWebhook, quoteState, sessionEvent, type AcceptedQuote } from './payment-fixtures'
 import { anonymousAgent, createOrganisation, createUser, signInAs, startTestApp, type SignedInAgent, type TestContext } from './support'
@@ -153,6 +153,12 @@ describe('POST /api/v1/quotes/:id/deposit', () => {
     expect(completed).toBeDefined()
     expect(await ctx.dataSource.getRepository(PaymentEvent).existsBy({ eventId: completed?.id ?? '' })).toBe(true)
 
+    const [receipt, ...more] = await ctx.dataSource.getRepository(MailOutbox).findBy({ kind: 'deposit-received', reference: accepted.quote.id })
+    expect(more).toHaveLength(0)
+    expect(receipt).toMatchObject({ status: 'pending', to: [buyer.email], cc: [sales.email] })
+    expect(receipt?.text).toContain(order.number)
+    expect(receipt?.text).toContain(deposit?.paymentIntentId ?? 'no payment intent')
+
     const status = await agent.agent.get(`/api/v1/quotes/${accepted.quote.id}/deposit`).expect(200)
     expect(status.body).toMatchObject({ quoteState: 'deposit-paid', payable: false, deposit: { status: 'paid', amount: 300_000 }, order: { id: order.id, number: order.number } })
   })
@@ -170,6 +176,7 @@ describe('POST /api/v1/quotes/:id/deposit', () => {
       deposits: (await depositsOf(ctx.dataSource, accepted.quote.id)).map((row) => ({ ...row })),
       orders: await ctx.dataSource.getRepository(SalesOrder).findBy({ quoteId: accepted.quote.id }),
       audits: await ctx.dataSource.getRepository(AuditEntry).countBy({ entityId: accepted.quote.id }),
+      mails: await ctx.dataSource.getRepository(MailOutbox).countBy({ reference: accepted.quote.id }),
     })
     const before = await snapshot()
 
@@ -179,6 +186,7 @@ describe('POST /api/v1/quotes/:id/deposit', () => {
     expect(await resent.json()).toMatchObject({ eventId: event.id, delivered: true, status: 200 })
     expect(await snapshot()).toEqual(before)
     expect(before.orders).toHaveLength(1)
+    expect(before.mails).toBe(1)
   })
 
   it('a declined card leaves the quote accepted and payable; the next attempt reuses the open session and can pay', async () => {
