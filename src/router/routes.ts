@@ -5,6 +5,7 @@ import type { Role } from '@shared/contracts/auth.contract'
 export type RouteName =
   | 'home'
   | 'sign-in'
+  | 'set-password'
   | 'catalogue'
   | 'variant'
   | 'studies'
@@ -31,6 +32,7 @@ type NamedRoute = RouteRecordRaw & { name: RouteName }
 export const routes: NamedRoute[] = [
   { path: '/', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { access: 'public', title: 'Home' } },
   { path: '/sign-in', name: 'sign-in', component: () => import('@/views/SignInView.vue'), meta: { access: 'public', title: 'Sign in' } },
+  { path: '/set-password/:token', name: 'set-password', component: () => import('@/views/SetPasswordView.vue'), meta: { access: 'public', title: 'Choose your password' } },
   { path: '/catalogue', name: 'catalogue', component: () => import('@/views/CatalogueView.vue'), meta: { access: 'public', title: 'Catalogue' } },
   { path: '/catalogue/:partNumber', name: 'variant', component: () => import('@/views/VariantView.vue'), meta: { access: 'public', title: 'Motor' } },
   { path: '/studies', name: 'studies', component: () => import('@/views/StudiesView.vue'), meta: { access: 'signed-in', title: 'Duty studies' } },
