@@ -373,6 +373,13 @@ export const useStudyStore = defineStore('study', () => {
   }
 
   const dirty = computed(() => savedInputJson.value === null || JSON.stringify(candidateInput.value.raw) !== savedInputJson.value)
+  /** Inputs that move the results changed since the last save (the name does not count). */
+  const resultsStale = computed(() => {
+    if (savedInputJson.value === null) return true
+    const saved: unknown = JSON.parse(savedInputJson.value)
+    const withoutName = (value: unknown) => JSON.stringify(typeof value === 'object' && value !== null ? { ...value, name: '' } : value)
+    return withoutName(saved) !== withoutName(candidateInput.value.raw)
+  })
   // Any edit makes the server's field reasons stale.
   watch(
     () => JSON.stringify(candidateInput.value.raw),
@@ -634,6 +641,7 @@ export const useStudyStore = defineStore('study', () => {
     blockingErrors,
     preview: computed(() => previewState.value.curves),
     dirty,
+    resultsStale,
     result,
     changes,
     selectedCandidates,
