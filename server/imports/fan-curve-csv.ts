@@ -99,7 +99,7 @@ export function parseFanCurveCsv(text: string, chosen: FanCsvUnitChoice): FanCur
     if (!isComment) data.push(entry)
   }
   if (data.length === 0) {
-    errors.push({ line: 1, message: 'there is nothing to read: give rows of flow, static pressure and shaft power' })
+    errors.push({ line: 1, message: 'there is nothing to read: paste rows of flow, static pressure and shaft power' })
     return { points, errors, units, unitsFromHeader, refRpm }
   }
   const delimiter = detectDelimiter(data.map((d) => d.content))
