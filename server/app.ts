@@ -175,7 +175,8 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
     app.get('/{*splat}', (req, res, next) => {
       if (!req.accepts('html')) return next()
       res.setHeader('Cache-Control', 'no-cache')
-      res.sendFile(path.join(clientDir, 'index.html'))
+      // `root` keeps send's dot-file rule to the file's own name: the folder may sit under .data/.
+      res.sendFile('index.html', { root: clientDir })
     })
   }
   app.use(errorHandler(log))
