@@ -1,6 +1,16 @@
 import { describe, expect, it } from 'vitest'
-import { parseFanCsv } from '../../src/composables/useFanCsv'
+import type { FanCsvUnitChoice } from '../../shared/contracts/import.contract'
 import { parseFanCurveCsv } from './fan-curve-csv'
+
+// The study screen's own reader, loaded at run time: src/ belongs to the SPA's TypeScript project.
+const BROWSER_READER = '../../src/composables/useFanCsv'
+type Reader = (text: string, units: FanCsvUnitChoice) => unknown
+async function browserReader(): Promise<Reader> {
+  const module: unknown = await import(/* @vite-ignore */ BROWSER_READER)
+  if (typeof module !== 'object' || module === null || !('parseFanCsv' in module) || typeof module.parseFanCsv !== 'function') throw new Error('parseFanCsv not found')
+  const reader = module.parseFanCsv
+  return (text, units) => reader(text, units)
+}
 
 const SI = { flow: 'm3/s', pressure: 'Pa', power: 'W' } as const
 const CASES: [string, string][] = [
@@ -15,7 +25,8 @@ const CASES: [string, string][] = [
 ]
 
 describe('parseFanCurveCsv (server) against parseFanCsv (browser)', () => {
-  it.each(CASES)('reads %s exactly as the study screen does', (_name, text) => {
+  it.each(CASES)('reads %s exactly as the study screen does', async (_name, text) => {
+    const parseFanCsv = await browserReader()
     expect(parseFanCurveCsv(text, SI)).toEqual(parseFanCsv(text, SI))
   })
 

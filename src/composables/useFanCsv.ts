@@ -3,6 +3,7 @@
 // names its line and column so the user can fix the source.
 import { computed, ref, shallowRef } from 'vue'
 import { toSI, type FanPoint } from '@shared/engineering'
+import { parseFanCurveFile } from '@/api/admin-catalogue.api'
 
 export const CSV_FLOW_UNITS = ['m3/h', 'm3/s', 'L/s', 'CFM'] as const
 export const CSV_PRESSURE_UNITS = ['Pa', 'inH2O', 'mmH2O'] as const
@@ -216,7 +217,14 @@ export function useFanCsv(initial: FanCsvUnits) {
     }
     fileName.value = file.name
     text.value = await file.text()
-    return parse()
+    // An uploaded file is read by the server's parser (POST /api/v1/fan-curves/parse), the one
+    // every buyer's upload goes through; pasted text stays in the browser. Same rules, same report.
+    try {
+      result.value = await parseFanCurveFile(file, units.value)
+      return result.value
+    } catch {
+      return parse()
+    }
   }
 
   const ok = computed(() => result.value !== null && result.value.errors.length === 0 && result.value.points.length >= 3)
