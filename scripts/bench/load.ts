@@ -65,10 +65,14 @@ export async function benchLoad(stack: BenchStack, quick: boolean): Promise<void
     { name: 'POST preview-run (demo catalogue)', options: { url: `${stack.baseUrl}/api/v1/studies/preview-run`, method: 'POST', headers: jsonHeaders(session), body: studyBody } },
   ]
   for (const target of targets) {
+    // One connection first: the latency a lone user sees, without queueing behind 31 others.
+    const alone = await runAutocannon({ ...target.options, connections: 1, duration: quick ? 3 : 5, timeout: 10 })
+    emit('load', { route: target.name, connections: 1, durationS: quick ? 3 : 5, catalogueVariants: list.total, ...alone })
     const figures = await runAutocannon({ ...target.options, connections, duration, timeout: 10 })
     emit('load', { route: target.name, connections, durationS: duration, catalogueVariants: list.total, ...figures })
     const clean = figures.errors === 0 && figures.non2xx === 0 && figures.timeouts === 0
     const value = `${figures.requestsPerSecond} req/s, p95 ${figures.p95Ms} ms`
+    check(`load: ${target.name} @1`, `${alone.requestsPerSecond} req/s, p50 ${alone.p50Ms} ms`, 'informational', undefined)
     if (target.name.startsWith('GET catalogue list')) check(`load: ${target.name} p95 @${connections}`, value, '< 50 ms p95, 0 errors', figures.p95Ms < 50 && clean)
     else check(`load: ${target.name} @${connections}`, value, '0 errors / non-2xx', clean)
     await new Promise((resolve) => setTimeout(resolve, 1000))
