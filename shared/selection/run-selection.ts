@@ -176,12 +176,16 @@ interface Scored {
 const TIER_LABEL = ['meets the duty at worst case', 'meets at nominal only', 'runs below the duty', 'crawls in a torque dip', 'does not start'] as const
 
 /**
- * Orders candidates: worst-case duty met first, then (within the meeting tiers) the higher motor
- * efficiency at nominal, else (below the duty) the higher flow. score = (4 - tier) x 1000 + a
- * tie-breaker under 1000, so higher is better and the order is the score's.
+ * Orders candidates: worst-case duty met first; within the meeting tiers the higher duty
+ * efficiency (the air power the buyer asked for, Q_duty x p_duty, over the electrical input at
+ * nominal supply), which also ranks a motor that overshoots the duty below one that just meets
+ * it; below the duty, the higher flow. score = (4 - tier) x 1000 + a tie-breaker under 1000, so
+ * higher is better and the order is the score's.
  */
-function scoreOf(tier: number, candidate: Candidate, dutyFlow: number): number {
-  const within = tier <= 1 ? (candidate.nominal.efficiency ?? 0) * 999 : Math.min(999, (candidate.nominal.flowM3s / dutyFlow) * 999)
+function scoreOf(tier: number, candidate: Candidate, duty: { flowM3s: number; staticPa: number }): number {
+  const inputW = candidate.nominal.inputW ?? 0
+  const dutyEfficiency = inputW > 0 ? (duty.flowM3s * duty.staticPa) / inputW : 0
+  const within = tier <= 1 ? Math.min(999, dutyEfficiency * 999) : Math.min(999, (candidate.nominal.flowM3s / duty.flowM3s) * 999)
   return (4 - tier) * 1000 + within
 }
 
@@ -285,7 +289,7 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
         warnings,
         score: 0,
       }
-      candidate.score = scoreOf(tier, candidate, dutyFlow)
+      candidate.score = scoreOf(tier, candidate, input.duty)
       scored.push({ candidate, tier, rows: { prepared: row.prepared } })
     }
   }
