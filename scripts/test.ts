@@ -7,7 +7,7 @@ import { ensureChromium } from './lib/chromium'
 import { startMaria, type MariaInstance } from './lib/mariadb'
 import { say } from './lib/log'
 import { localEnvironment } from './lib/environment'
-import { ROOT, buildClientIfStale, freePort, startFakes, type FakeServices } from './lib/services'
+import { ROOT, buildClientIfStale, freePort, onShutdown, startFakes, type FakeServices } from './lib/services'
 
 interface Tally {
   suite: string
@@ -77,6 +77,24 @@ async function main(): Promise<number> {
   let maria: MariaInstance | undefined
   let fakes: FakeServices | undefined
   let server: ReturnType<typeof spawn> | undefined
+  let cleaned = false
+  const cleanUp = async (): Promise<void> => {
+    if (cleaned) return
+    cleaned = true
+    if (server && server.exitCode === null) {
+      server.kill('SIGTERM')
+      await new Promise((resolve) => server?.once('exit', resolve))
+    }
+    await fakes?.stop()
+    await maria?.stop()
+    rmSync(path.join(testDir, 'run.pid'), { force: true })
+  }
+  // Interrupted (Ctrl-C, CI timeout): stop what was started before going.
+  onShutdown(async () => {
+    await cleanUp()
+    console.log('0 passed, 1 failed')
+    process.exit(1)
+  })
   const reports = path.join(testDir, 'reports')
   try {
     rmSync(testDir, { recursive: true, force: true })
@@ -149,13 +167,7 @@ async function main(): Promise<number> {
     console.error(error)
     tallies.push({ suite: 'set-up', passed: 0, failed: 1, skipped: 0 })
   } finally {
-    if (server && server.exitCode === null) {
-      server.kill('SIGTERM')
-      await new Promise((resolve) => server?.once('exit', resolve))
-    }
-    await fakes?.stop()
-    await maria?.stop()
-    rmSync(path.join(testDir, 'run.pid'), { force: true })
+    await cleanUp()
   }
 
   console.log('')
