@@ -201,7 +201,9 @@ export interface RunResult {
   systemK: number
   considered: number
   excluded: { reason: string; count: number }[]
+  /** The best candidates, at most CANDIDATE_LIMIT of them; `candidateTotal` counts them all. */
   candidates: Candidate[]
+  candidateTotal: number
   /** Torque-speed curves of the best candidates for the charts. */
   curves: CandidateCurves[]
   /** Load torque against speed (the fan on its system at the operating density). */

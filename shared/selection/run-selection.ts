@@ -85,6 +85,8 @@ export function preparePerformance(row: Omit<CataloguePerformance, 'prepared' | 
 export const SUPPLY_VOLTS_WINDOW = 0.1
 /** Breakdown torque under this multiple of the running load torque earns a warning (common practice margin). */
 export const BREAKDOWN_WARN_RATIO = 1.3
+/** Candidates returned (the best ones); a catalogue of thousands would otherwise answer megabytes. */
+export const CANDIDATE_LIMIT = 500
 /** Curves returned for the charts. */
 export const CHART_CANDIDATES = 12
 
@@ -314,7 +316,8 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
     systemK: fanLoad.system.k,
     considered,
     excluded: [...excluded.entries()].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
-    candidates: scored.map((item) => item.candidate),
+    candidates: scored.slice(0, CANDIDATE_LIMIT).map((item) => item.candidate),
+    candidateTotal: scored.length,
     curves,
     loadCurve: sampleLoad(load, fastestSync),
   }
