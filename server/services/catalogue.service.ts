@@ -105,7 +105,8 @@ export class CatalogueService {
     const direction = query.order === 'desc' ? 'DESC' : 'ASC'
     builder.orderBy(`variant.${query.sort}`, direction)
     if (query.sort !== 'partNumber') builder.addOrderBy('variant.partNumber', 'ASC')
-    builder.skip((query.page - 1) * query.pageSize).take(query.pageSize)
+    // limit/offset, not skip/take: the family join is many-to-one, so no distinct-id pre-query is needed.
+    builder.offset((query.page - 1) * query.pageSize).limit(query.pageSize)
     const [rows, total] = await builder.getManyAndCount()
     return { items: rows.map(toVariantRow), total, page: query.page, pageSize: query.pageSize }
   }
