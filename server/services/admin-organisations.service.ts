@@ -34,8 +34,8 @@ export class AdminOrganisationService {
     const builder = this.dataSource
       .getRepository(Organisation)
       .createQueryBuilder('organisation')
-      // The maker first, then customers by name.
-      .orderBy('organisation.kind', 'DESC')
+      // The maker first (first value of the enum), then customers by name.
+      .orderBy('organisation.kind', 'ASC')
       .addOrderBy('organisation.name', 'ASC')
       .skip((query.page - 1) * query.pageSize)
       .take(query.pageSize)
