@@ -83,6 +83,39 @@ describe('every GET route under hostile parameters and query strings', () => {
   }, 120_000)
 })
 
+// CSV-shaped noise: separators, quotes, numbers in odd forms, headers that almost fit.
+const csvCell = fc.oneof(fc.string({ maxLength: 12 }), fc.double().map(String), fc.integer().map(String), fc.constantFrom('', '"', '""', 'NaN', '-0', '1e400', '1,5', ' 12 ', '=1+1', ...hostileStrings))
+const csvText = fc
+  .tuple(
+    fc.oneof(fc.constantFrom('flow_cfm,static_inh2o,shaft_w', 'flow_m3s,static_pa,shaft_w', 'part_number,name', 'rpm,torque_nm,current_a,input_w'), fc.array(fc.string({ maxLength: 10 }), { maxLength: 6 }).map((cells) => cells.join(','))),
+    fc.constantFrom(',', ';', '\t'),
+    fc.array(fc.array(csvCell, { maxLength: 8 }), { maxLength: 25 }),
+  )
+  .map(([header, separator, rows]) => [header, ...rows.map((cells) => cells.join(separator))].join('\n'))
+
+describe('the CSV and curve parsers under random files', () => {
+  it('read any text without a 500: rows or row errors', async () => {
+    await fc.assert(
+      fc.asyncProperty(csvText, async (text) => {
+        const asJson = await buyer.agent.post('/api/v1/fan-curves/parse').set('X-CSRF-Token', buyer.csrf).send({ text })
+        if (asJson.status >= 500) throw new Error(`fan curve parse answered ${asJson.status} for ${JSON.stringify(text)}`)
+        const asFile = await admin.agent.post('/api/admin/catalogue/import').set('X-CSRF-Token', admin.csrf).attach('file', Buffer.from(text), 'random.csv')
+        if (asFile.status >= 500) throw new Error(`catalogue import answered ${asFile.status} for ${JSON.stringify(text)}`)
+        const curve = await admin.agent
+          .post('/api/admin/catalogue/performance')
+          .set('X-CSRF-Token', admin.csrf)
+          .field('partNumber', 'NO-SUCH-PART')
+          .field('tap', 'HI')
+          .field('volts', '120')
+          .field('hz', '60')
+          .attach('file', Buffer.from(text), 'curve.csv')
+        if (curve.status >= 500) throw new Error(`performance upload answered ${curve.status} for ${JSON.stringify(text)}`)
+      }),
+      { numRuns: 40 },
+    )
+  }, 180_000)
+})
+
 describe('request size and SQL-looking text', () => {
   it('refuses a body over the limit with 413', async () => {
     const huge = JSON.stringify({ input: { name: 'x'.repeat(2 * 1024 * 1024) } })
