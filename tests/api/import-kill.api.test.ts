@@ -1,0 +1,118 @@
+// The app killed in the middle of an import commit: what was committed stays, nothing partial is
+// applied. A child process commits a large batch and is killed with SIGKILL part-way.
+import { spawn } from 'node:child_process'
+import { randomUUID } from 'node:crypto'
+import path from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { Like } from 'typeorm'
+import { ImportBatch, MotorVariant } from '../../server/db/entities'
+import { CATALOGUE_COLUMNS } from '../../server/imports/catalogue-columns'
+import { createUser, signInAs, startTestApp, type SignedInAgent, type TestContext } from './support'
+
+let ctx: TestContext
+let admin: SignedInAgent
+
+beforeAll(async () => {
+  ctx = await startTestApp()
+  admin = await signInAs(ctx, await createUser(ctx.dataSource, 'admin'))
+})
+afterAll(async () => {
+  await ctx.close()
+})
+
+function csv(family: string, count: number): string {
+  const row = (index: number): Record<string, string> => ({
+    family_code: family,
+    family_name: `Kill test family ${family}`,
+    family_type: 'shaded-pole',
+    family_description: 'Invented rows for the kill test',
+    family_lifecycle: 'active',
+    part_number: `${family}-${String(index).padStart(5, '0')}`,
+    name: `Kill test motor ${index}`,
+    poles: '4',
+    rated_voltage_v: '120',
+    rated_frequency_hz: '60',
+    dual_frequency: 'no',
+    rated_output_w: String(5 + (index % 20)),
+    rated_speed_rpm: '1550',
+    rated_current_a: '0.42',
+    rated_input_w: '38',
+    locked_rotor_torque_nm: '0.035',
+    breakdown_torque_nm: '0.07',
+    frame_diameter_mm: '84',
+    stack_length_mm: '20',
+    shaft_diameter_mm: '6',
+    shaft_length_mm: '30',
+    mounting: 'through-bolt',
+    rotation: 'ccw',
+    rotation_viewed_from: 'shaft-end',
+    other_rotation_available: 'no',
+    enclosure: 'open',
+    insulation_class: 'B',
+    protection: 'impedance',
+    max_ambient_c: '40',
+    capacitor_uf: '',
+    capacitor_vac: '',
+    copper_mass_g: '95',
+    weight_g: '620',
+    moq: '500',
+    lead_time_days: '42',
+    lifecycle: 'active',
+    speed_taps: 'high',
+  })
+  return [CATALOGUE_COLUMNS.join(','), ...Array.from({ length: count }, (_, index) => CATALOGUE_COLUMNS.map((column) => row(index)[column] ?? '').join(','))].join('\n') + '\n'
+}
+
+describe('an import commit killed part-way', () => {
+  it('applies all rows or none, and the same batch commits fully afterwards', async () => {
+    const family = `K${randomUUID().slice(0, 6).toUpperCase()}`
+    const rows = 8000
+    const preview = await admin.agent.post('/api/admin/catalogue/import').set('X-CSRF-Token', admin.csrf).attach('file', Buffer.from(csv(family, rows)), 'kill.csv')
+    expect(preview.status).toBe(201)
+    const batchId: string = preview.body.batchId
+    expect(batchId).toBeTruthy()
+
+    const child = spawn(path.resolve('node_modules/.bin/tsx'), ['--tsconfig', 'tsconfig.server.json', 'tests/api/commit-import-batch.ts', batchId, admin.user.id], {
+      env: { ...process.env, DB_PORT: String(ctx.config.DB_PORT), DB_NAME: ctx.config.DB_NAME, DB_PASSWORD: ctx.config.DB_PASSWORD },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    })
+    let output = ''
+    const exited = new Promise<NodeJS.Signals | number | null>((resolve) => child.on('exit', (code, signal) => resolve(signal ?? code)))
+    await new Promise<void>((resolve, reject) => {
+      const timer = setTimeout(() => reject(new Error(`child never started committing: ${output}`)), 60_000)
+      child.stdout.on('data', (chunk: Buffer) => {
+        output += chunk.toString()
+        if (output.includes('committing')) {
+          clearTimeout(timer)
+          resolve()
+        }
+      })
+      child.stderr.on('data', (chunk: Buffer) => {
+        output += chunk.toString()
+      })
+    })
+    // Let the transaction get under way, then pull the plug.
+    await new Promise((resolve) => setTimeout(resolve, 20))
+    child.kill('SIGKILL')
+    const ended = await exited
+    expect(ended === 'SIGKILL' || ended === 0).toBe(true)
+
+    // The server finishes or rolls back the dead client's transaction on its own; the batch's
+    // row lock is free again once it has. Then the batch state and the rows must agree.
+    const variants = ctx.dataSource.getRepository(MotorVariant)
+    const batches = ctx.dataSource.getRepository(ImportBatch)
+    let batch = await batches.findOneByOrFail({ id: batchId })
+    await ctx.dataSource.transaction(async (manager) => {
+      batch = await manager.findOneOrFail(ImportBatch, { where: { id: batchId }, lock: { mode: 'pessimistic_write' } })
+    })
+    const afterKill = await variants.countBy({ partNumber: Like(`${family}-%`) })
+    expect([0, rows]).toContain(afterKill)
+    expect(afterKill === rows).toBe(batch.status === 'committed')
+    console.log(afterKill === 0 ? 'killed before the commit completed: nothing applied' : 'the commit had completed before the kill: all applied')
+    if (afterKill === 0) {
+      const commit = await admin.agent.post(`/api/admin/catalogue/import/batches/${batchId}/commit`).set('X-CSRF-Token', admin.csrf).send({})
+      expect(commit.status, JSON.stringify(commit.body)).toBe(200)
+      expect(await variants.countBy({ partNumber: Like(`${family}-%`) })).toBe(rows)
+    }
+  }, 180_000)
+})
