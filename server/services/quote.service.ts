@@ -128,6 +128,8 @@ export class QuoteService {
       .skip((page - 1) * pageSize)
       .take(pageSize)
     if (!isStaff(user)) builder.andWhere('quote.organisationId = :org', { org: user.organisation.id })
+    // A sales engineer's list holds their accounts' quotes and those nobody has taken yet.
+    if (user.role === 'sales') builder.andWhere('(quote.salesEngineerId = :me OR quote.salesEngineerId IS NULL)', { me: user.id })
     if (states?.length) builder.andWhere('quote.state IN (:...states)', { states })
     const [quotes, total] = await builder.getManyAndCount()
     const revisions = quotes.length

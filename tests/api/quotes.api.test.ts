@@ -100,6 +100,10 @@ describe('quote requests and drafts', () => {
   it('keeps other organisations out (404) and buyers away from sales actions (403)', async () => {
     const id = await requestQuote()
     expect((await outsider.agent.get(`/api/v1/quotes/${id}`)).status).toBe(404)
+    // Sales engineers list their own accounts' quotes; another engineer's list leaves this one out.
+    expect((await sales.agent.get('/api/v1/quotes?pageSize=100')).body.items.map((item: { id: string }) => item.id)).toContain(id)
+    const otherSales = await signInAs(ctx, await createUser(ctx.dataSource, 'sales'))
+    expect((await otherSales.agent.get('/api/v1/quotes?pageSize=100')).body.items.map((item: { id: string }) => item.id)).not.toContain(id)
     const list = await outsider.agent.get('/api/v1/quotes')
     expect(list.body.items.map((item: { id: string }) => item.id)).not.toContain(id)
     const quote = await current(id)
