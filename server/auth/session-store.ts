@@ -5,6 +5,15 @@ import { LessThan, type DataSource, type Repository } from 'typeorm'
 import { SessionRecord } from '../db/entities'
 
 const DAY_MS = 24 * 60 * 60 * 1000
+/**
+ * A rolling session's expiry is written at most this often per session and process: express-session
+ * touches the store on every response and holds the response until the write commits, so an
+ * unthrottled touch costs every request a committed UPDATE. Sessions last 8 hours; a minute of
+ * slack in their end is immaterial.
+ */
+export const TOUCH_EVERY_MS = 60 * 1000
+/** Sessions whose stored expiry this process remembers (oldest forgotten first). */
+const REMEMBERED_SESSIONS = 10_000
 
 type Callback = (error?: unknown) => void
 
@@ -21,6 +30,8 @@ function userIdOf(data: session.SessionData): string | null {
 export class TypeormSessionStore extends session.Store {
   private readonly repository: Repository<SessionRecord>
   private pruneTimer: NodeJS.Timeout | undefined
+  /** Stored expiry per session id, as last read or written by this process. */
+  private readonly storedExpiry = new Map<string, number>()
 
   constructor(dataSource: DataSource, pruneEveryMs = 15 * 60 * 1000) {
     super()
@@ -35,7 +46,11 @@ export class TypeormSessionStore extends session.Store {
     this.repository
       .findOneBy({ id: sid })
       .then((row) => {
-        if (!row || row.expiresAt <= Date.now()) return callback(null, null)
+        if (!row || row.expiresAt <= Date.now()) {
+          this.storedExpiry.delete(sid)
+          return callback(null, null)
+        }
+        this.remember(sid, row.expiresAt)
         const parsed: session.SessionData = JSON.parse(row.data)
         callback(null, parsed)
       })
@@ -43,13 +58,18 @@ export class TypeormSessionStore extends session.Store {
   }
 
   override set(sid: string, data: session.SessionData, callback?: Callback): void {
+    const expiresAt = expiryOf(data)
     this.repository
-      .upsert({ id: sid, data: JSON.stringify(data), expiresAt: expiryOf(data), userId: userIdOf(data) }, ['id'])
-      .then(() => callback?.())
+      .upsert({ id: sid, data: JSON.stringify(data), expiresAt, userId: userIdOf(data) }, ['id'])
+      .then(() => {
+        this.remember(sid, expiresAt)
+        callback?.()
+      })
       .catch((error: unknown) => callback?.(error))
   }
 
   override destroy(sid: string, callback?: Callback): void {
+    this.storedExpiry.delete(sid)
     this.repository
       .delete({ id: sid })
       .then(() => callback?.())
@@ -57,15 +77,33 @@ export class TypeormSessionStore extends session.Store {
   }
 
   override touch(sid: string, data: session.SessionData, callback?: Callback): void {
+    const expiresAt = expiryOf(data)
+    const stored = this.storedExpiry.get(sid)
+    if (stored !== undefined && expiresAt - stored < TOUCH_EVERY_MS) {
+      callback?.()
+      return
+    }
     this.repository
-      .update({ id: sid }, { expiresAt: expiryOf(data) })
-      .then(() => callback?.())
+      .update({ id: sid }, { expiresAt })
+      .then(() => {
+        this.remember(sid, expiresAt)
+        callback?.()
+      })
       .catch((error: unknown) => callback?.(error))
   }
 
   /** Ends every session of a user (disabled account, changed role, reset password). */
   async destroyForUser(userId: string): Promise<void> {
     await this.repository.delete({ userId })
+  }
+
+  private remember(sid: string, expiresAt: number): void {
+    this.storedExpiry.delete(sid)
+    this.storedExpiry.set(sid, expiresAt)
+    if (this.storedExpiry.size > REMEMBERED_SESSIONS) {
+      const oldest = this.storedExpiry.keys().next()
+      if (!oldest.done) this.storedExpiry.delete(oldest.value)
+    }
   }
 
   async prune(): Promise<void> {
