@@ -1,3 +1,4 @@
+import { LRUCache } from 'lru-cache'
 import type { DataSource, EntityManager } from 'typeorm'
 import type { Page } from '../../shared/contracts/admin.contract'
 import type {
@@ -65,18 +66,69 @@ function protectionCode(value: string): VariantRow['protection'] {
   }
 }
 
-/** Raises the catalogue revision inside the caller's transaction; caches elsewhere see it on their next run. */
+/** Revision bumps made by this process; a catalogue service re-reads the revision after one. */
+let localBumps = 0
+
+/**
+ * Raises the catalogue revision inside the caller's transaction. This process's caches re-read the
+ * revision on their next request; other processes within REVISION_TTL_MS.
+ */
 export async function bumpCatalogueRevision(manager: EntityManager): Promise<void> {
   await manager.increment(CatalogueRevision, { id: 1 }, 'revision', 1)
+  localBumps += 1
 }
+
+/**
+ * How long a read revision is trusted before it is read again. Every catalogue answer (list
+ * pages, variant pages, facets, the solver's catalogue) is cached under the revision it was
+ * built at, so a change made through another app process shows within this time.
+ */
+export const REVISION_TTL_MS = 1000
+/** Catalogue answers kept (list pages with their filters, variant pages, facets). */
+const ANSWERS_KEPT = 2000
 
 export class CatalogueService {
   private cache: { revision: number; entries: CatalogueEntry[]; byVariant: Map<string, CatalogueEntry> } | undefined
   private loading: Promise<{ revision: number; entries: CatalogueEntry[] }> | undefined
+  private revisionRead: { revision: number; at: number; bumps: number } | undefined
+  /** Answers keyed by revision and request; shared objects, so callers must not change them. */
+  private readonly answers = new LRUCache<string, object>({ max: ANSWERS_KEPT })
 
   constructor(private readonly dataSource: DataSource) {}
 
-  async listVariants(query: VariantListQuery): Promise<Page<VariantRow>> {
+  /** The catalogue revision, read again after REVISION_TTL_MS or a bump in this process. */
+  async currentRevision(): Promise<number> {
+    const read = this.revisionRead
+    const now = Date.now()
+    if (read && now - read.at < REVISION_TTL_MS && read.bumps === localBumps) return read.revision
+    const bumps = localBumps
+    const revision = await this.revision()
+    this.revisionRead = { revision, at: now, bumps }
+    return revision
+  }
+
+  private async answer<T extends object>(key: string, build: () => Promise<T>): Promise<T> {
+    const full = `${await this.currentRevision()}|${key}`
+    const hit = this.answers.get(full)
+    if (hit) return hit as T
+    const value = await build()
+    this.answers.set(full, value)
+    return value
+  }
+
+  listVariants(query: VariantListQuery): Promise<Page<VariantRow>> {
+    return this.answer(`list|${JSON.stringify(query)}`, () => this.queryVariants(query))
+  }
+
+  getVariant(partNumber: string): Promise<VariantDetail> {
+    return this.answer(`variant|${partNumber}`, () => this.queryVariant(partNumber))
+  }
+
+  facets(): Promise<CatalogueFacets> {
+    return this.answer('facets', () => this.queryFacets())
+  }
+
+  private async queryVariants(query: VariantListQuery): Promise<Page<VariantRow>> {
     const builder = this.dataSource
       .getRepository(MotorVariant)
       .createQueryBuilder('variant')
@@ -111,7 +163,7 @@ export class CatalogueService {
     return { items: rows.map(toVariantRow), total, page: query.page, pageSize: query.pageSize }
   }
 
-  async getVariant(partNumber: string): Promise<VariantDetail> {
+  private async queryVariant(partNumber: string): Promise<VariantDetail> {
     const variant = await this.dataSource.getRepository(MotorVariant).findOne({ where: { partNumber }, relations: { family: true } })
     if (!variant) throw new NotFoundError('Motor')
     const performance = await this.dataSource
@@ -157,7 +209,7 @@ export class CatalogueService {
     }
   }
 
-  async facets(): Promise<CatalogueFacets> {
+  private async queryFacets(): Promise<CatalogueFacets> {
     const supplies: { volts: number; hz: number; isDual: number; count: string }[] = await this.dataSource.query(
       'SELECT ratedVolts AS volts, ratedHz AS hz, dualFrequency AS isDual, COUNT(*) AS count FROM motor_variant GROUP BY ratedVolts, ratedHz, dualFrequency ORDER BY ratedVolts, ratedHz',
     )
@@ -192,7 +244,7 @@ export class CatalogueService {
 
   /** Every variant with its current performance rows, prepared for the solver; cached per revision. */
   async solverCatalogue(): Promise<{ revision: number; entries: CatalogueEntry[] }> {
-    const revision = await this.revision()
+    const revision = await this.currentRevision()
     if (this.cache?.revision === revision) return this.cache
     this.loading ??= this.load(revision).finally(() => {
       this.loading = undefined
