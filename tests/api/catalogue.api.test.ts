@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import request from 'supertest'
+import { bumpCatalogueRevision, REVISION_TTL_MS } from '../../server/services/catalogue.service'
 import { insertVariants } from './catalogue-fixtures'
 import { startTestApp, type TestContext } from './support'
 
@@ -85,5 +86,29 @@ describe('GET /api/v1/catalogue/facets', () => {
     expect(response.status).toBe(200)
     const supply = response.body.supplies.find((item: { volts: number; hz: number }) => item.volts === 230 && item.hz === 50)
     expect(supply.count).toBeGreaterThanOrEqual(3)
+  })
+})
+
+describe('catalogue answers cached per revision', () => {
+  // A change written by another app process (here: plain SQL, which this process does not see
+  // as its own bump) shows once the revision is read again, at most REVISION_TTL_MS later.
+  it('serves a change made elsewhere within the revision time-to-live, and at once after a change here', async () => {
+    const part = `${prefix}-P230`
+    const detail = () => request(ctx.handle.app).get(`/api/v1/catalogue/variants/${part}`)
+    const before = await detail()
+    expect(before.status).toBe(200)
+    const renamed = `Renamed elsewhere ${randomUUID().slice(0, 6)}`
+    await ctx.dataSource.query('UPDATE motor_variant SET name = ? WHERE partNumber = ?', [renamed, part])
+    await ctx.dataSource.query('UPDATE catalogue_revision SET revision = revision + 1 WHERE id = 1')
+    await new Promise((resolve) => setTimeout(resolve, REVISION_TTL_MS + 50))
+    expect((await detail()).body.name).toBe(renamed)
+    expect((await list({})).body.items.find((row: { partNumber: string }) => row.partNumber === part)?.name).toBe(renamed)
+
+    const local = `Renamed here ${randomUUID().slice(0, 6)}`
+    await ctx.dataSource.transaction(async (manager) => {
+      await manager.query('UPDATE motor_variant SET name = ? WHERE partNumber = ?', [local, part])
+      await bumpCatalogueRevision(manager)
+    })
+    expect((await detail()).body.name).toBe(local)
   })
 })
