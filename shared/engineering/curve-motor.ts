@@ -25,12 +25,50 @@ export interface BoundMotor {
   evaluate(rpm: number): MotorEvaluation
   /** Speeds (at this supply) where the torque curve may have a local minimum: the scan visits them. */
   readonly dipRpms: readonly number[]
+  /** The solver's scan from standstill on this supply, filled when it is solved again (solver.ts). */
+  scanTable?: ScanTable
+  solvedOnce: boolean
+}
+
+export interface ScanTable {
+  speeds: readonly number[]
+  torques: readonly number[]
+  startTorque: number
 }
 
 export interface PreparedMotorBase {
   readonly prepared: 'motor'
   readonly poles: number
   bind(supply: Supply): BoundMotor
+}
+
+/**
+ * The last few supplies a prepared motor was bound to, with their bound motors. A study solves
+ * every candidate at the same two or three supplies, run after run; binding once per supply saves
+ * the allocation. Bound motors keep scratch state but the engine is synchronous, so sharing is safe.
+ */
+export class BoundCache {
+  private static readonly SIZE = 4
+  private readonly volts: number[] = []
+  private readonly hz: number[] = []
+  private readonly motors: BoundMotor[] = []
+  private next = 0
+
+  get(supply: Supply): BoundMotor | undefined {
+    for (let i = 0; i < this.motors.length; i++) {
+      if (this.volts[i] === supply.volts && this.hz[i] === supply.hz) return this.motors[i]
+    }
+    return undefined
+  }
+
+  put(supply: Supply, motor: BoundMotor): BoundMotor {
+    const slot = this.next
+    this.next = (slot + 1) % BoundCache.SIZE
+    this.volts[slot] = supply.volts
+    this.hz[slot] = supply.hz
+    this.motors[slot] = motor
+    return motor
+  }
 }
 
 export function validateCurveMotor(input: unknown, field = 'motor'): CurveMotor {
@@ -125,8 +163,10 @@ export class PreparedCurveMotor implements PreparedMotorBase {
     return this.lastTorque + this.tailSlope * (n - this.lastRpm)
   }
 
+  private readonly bound = new BoundCache()
+
   bind(supply: Supply): BoundMotor {
-    return new BoundCurveMotor(this, supply)
+    return this.bound.get(supply) ?? this.bound.put(supply, new BoundCurveMotor(this, supply))
   }
 
   /** Torque on the rated curve at a rated-frequency speed. */
@@ -156,6 +196,8 @@ export class PreparedCurveMotor implements PreparedMotorBase {
 }
 
 class BoundCurveMotor implements BoundMotor {
+  scanTable?: ScanTable
+  solvedOnce = false
   readonly syncRpm: number
   readonly dipRpms: readonly number[]
   private readonly toRated: number

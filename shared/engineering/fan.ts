@@ -19,6 +19,8 @@ import { EngineeringInputError, requireArray, requireFinite, requireNonNegative,
 import { Pchip } from './pchip'
 import type { FanLoad, FanPoint, LoadEvaluation } from './types'
 
+const SEEDS_PER_INTERVAL = 16
+
 export function validateFanLoad(input: unknown, field = 'load'): FanLoad {
   const l = requireObject(input, field)
   const f = requireObject(l.fan, `${field}.fan`)
@@ -68,6 +70,12 @@ export class PreparedFanLoad {
   private readonly q: Float64Array
   private readonly g: Float64Array[]
   private readonly argMaxU: Float64Array
+  /**
+   * Per interval, g sampled at SEEDS_PER_INTERVAL + 1 even steps from its maximum to the interval's
+   * end, where the rightmost crossing lies: a linear look-up there starts Newton's method so close
+   * that one or two steps finish it (with an offset, every load evaluation solves g(q) = c).
+   */
+  private readonly seeds: Float64Array[]
   private readonly suffixMax: Float64Array
   private readonly d: number
   private readonly k: number
@@ -120,6 +128,15 @@ export class PreparedFanLoad {
       }
       intervalMax[i] = best
       this.argMaxU[i] = bestU
+    }
+    this.seeds = []
+    for (let i = 0; i < n; i++) {
+      const gc = this.g[i] as Float64Array
+      const a = this.argMaxU[i] ?? 0
+      const h = (qs[i + 1] ?? 0) - (qs[i] ?? 0)
+      const table = new Float64Array(SEEDS_PER_INTERVAL + 1)
+      for (let k = 0; k <= SEEDS_PER_INTERVAL; k++) table[k] = cubic(gc, a + ((h - a) * k) / SEEDS_PER_INTERVAL)
+      this.seeds.push(table)
     }
     this.suffixMax = new Float64Array(n)
     let run = -Infinity
@@ -175,8 +192,9 @@ export class PreparedFanLoad {
     if (gb >= 0) return qi + b
     let ga = cubic(gc, a) - c
     // g(a) >= c > g(b) and g decreases on the part of [a, b] that holds the crossing: Newton
-    // steps from a secant start, kept inside the shrinking bracket, else bisection.
-    let u = ga > 0 ? a + (b - a) * (ga / (ga - gb)) : a
+    // steps from the seed table's start, kept inside the shrinking bracket, else bisection.
+    let u = this.seed(lo, a, b, c)
+    if (!(u > a && u < b)) u = ga > 0 ? a + (b - a) * (ga / (ga - gb)) : a
     const eps = 1e-12 * h
     for (let it = 0; it < 50; it++) {
       const v = cubic(gc, u) - c
@@ -196,6 +214,19 @@ export class PreparedFanLoad {
       if ((step < 0 ? -step : step) <= eps || b - a <= eps) break
     }
     return qi + u
+  }
+
+  /** Start for the crossing g(q) = c on interval i: the last seed at or above c, then linear to the next. */
+  private seed(i: number, a: number, b: number, c: number): number {
+    const table = this.seeds[i]
+    if (!table) return a
+    let k = 0
+    while (k < SEEDS_PER_INTERVAL && (table[k + 1] ?? -Infinity) >= c) k++
+    if (k >= SEEDS_PER_INTERVAL) return b
+    const g0 = table[k] ?? 0
+    const g1 = table[k + 1] ?? 0
+    const step = (b - a) / SEEDS_PER_INTERVAL
+    return a + step * (k + (g0 > g1 ? (g0 - c) / (g0 - g1) : 0.5))
   }
 
   /** Load torque in N m at `rpm` (hot path). */

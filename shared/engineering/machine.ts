@@ -33,7 +33,7 @@
  * Complex arithmetic is written out on plain numbers: this runs in the solver's inner loop.
  */
 import { requireFinite, requireNonNegative, requireObject, requirePoles, requirePositive } from './errors'
-import type { BoundMotor, PreparedMotorBase } from './curve-motor'
+import { BoundCache, type BoundMotor, type PreparedMotorBase, type ScanTable } from './curve-motor'
 import { syncRpm } from './speed'
 import type { AuxWinding, CircuitMotor, MotorEvaluation, Supply } from './types'
 
@@ -79,13 +79,17 @@ export class PreparedCircuitMotor implements PreparedMotorBase {
     this.poles = motor.poles
   }
 
+  private readonly bound = new BoundCache()
+
   bind(supply: Supply): BoundMotor {
-    return new BoundCircuitMotor(this.source, supply)
+    return this.bound.get(supply) ?? this.bound.put(supply, new BoundCircuitMotor(this.source, supply))
   }
 }
 
 /** The circuit on one supply: reactances scaled, constants ready, a scratch solution kept. */
 class BoundCircuitMotor implements BoundMotor {
+  scanTable?: ScanTable
+  solvedOnce = false
   readonly syncRpm: number
   readonly dipRpms: readonly number[] = []
   private readonly ws: number

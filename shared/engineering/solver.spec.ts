@@ -103,6 +103,35 @@ describe('operating point', () => {
     expect(prepared).toEqual(raw)
   })
 
+  it('gives the same point when a prepared motor is solved again on a supply (scan table) as on its first solve', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0, max: 50000, noNaN: true }),
+        fc.double({ min: 0, max: 60, noNaN: true }),
+        fc.double({ min: 180, max: 250, noNaN: true }),
+        fc.boolean(),
+        (k, offsetPa, volts, curve) => {
+          const load = prepareLoad({ ...blowerFan, system: { k, offsetPa } })
+          const motor = prepareMotor(curve ? shadedPoleCurve : pscCircuit)
+          const supply = { volts, hz: 50 }
+          let first: OperatingPoint
+          try {
+            first = solveOperatingPoint(motor, load, supply)
+          } catch {
+            return // off the end of the fan curve: refused alike every time
+          }
+          const second = solveOperatingPoint(motor, load, supply)
+          const third = solveOperatingPoint(motor, load, supply)
+          expect({ ...third, evaluations: 0 }).toEqual({ ...first, evaluations: 0 })
+          expect({ ...second, evaluations: 0 }).toEqual({ ...first, evaluations: 0 })
+          // Without load jumps the table is read on the third solve: fewer fresh motor evaluations.
+          if (load.jumpRpms.length === 0 && load.maxRpm >= motor.bind(supply).syncRpm) expect(third.evaluations).toBeLessThan(first.evaluations)
+        },
+      ),
+      { numRuns: 120 },
+    )
+  })
+
   it('slows and loses flow at low line (IEC 60034-1 zone B: -10 %)', () => {
     const nominal = solveOperatingPoint(pscCircuit, blowerFan, mains)
     const low = solveOperatingPoint(pscCircuit, blowerFan, { volts: 207, hz: 50 })

@@ -16,6 +16,7 @@
 import { EngineeringInputError, requireFinite, requireObject, requirePositive } from './errors'
 import { isPreparedLoad, prepareLoad, type PreparedLoad } from './load'
 import { isPreparedMotor, prepareMotor, type BoundMotor, type PreparedMotor } from './motor'
+import type { ScanTable } from './curve-motor'
 import { validateSupply } from './speed'
 import type { Load, MotorModel, OperatingPoint, SolveOptions, Supply } from './types'
 
@@ -70,12 +71,24 @@ export function solveOperatingPoint(
   const tol = opts?.tolRpm ?? 1e-6 * ns
   const net = new NetTorque(bm, pl)
 
-  const tm0 = bm.torque(n0)
+  // From standstill with a load that has no torque jumps and no end below synchronous speed the
+  // scan speeds depend on the motor and supply alone: the motor's torques there are tabulated
+  // on the bound motor when it is solved a second time and read back on every later solve (same
+  // numbers, fewer evaluations; a study solves thousands of motors at the same two or three
+  // supplies, run after run, while a sweep over supplies binds each supply once).
+  const table = n0 === 0 && pl.jumpRpms.length === 0 && pl.maxRpm >= ns ? scanTableOf(bm, net) : undefined
+  const grid = table ? table.speeds : scanGrid(ns, n0, bm.dipRpms, pl.maxRpm, pl.jumpRpms)
+  const motorAt = (i: number, n: number): number => {
+    if (table) return table.torques[i] ?? 0
+    net.evaluations++
+    return bm.torque(n)
+  }
+
+  const tm0 = table ? table.startTorque : bm.torque(n0)
   const tl0 = pl.torque(n0)
-  net.evaluations++
+  if (!table) net.evaluations++
   if (!(tm0 > tl0)) return finish(net, 'no-start', n0, false, tm0, tl0)
 
-  const grid = scanGrid(ns, n0, bm.dipRpms, pl.maxRpm, pl.jumpRpms)
   let lo = n0
   let flo = tm0 - tl0
   let hi = -1
@@ -83,7 +96,7 @@ export function solveOperatingPoint(
   let next = grid.length
   for (let i = 0; i < grid.length; i++) {
     const n = grid[i] ?? ns
-    const fn = net.at(n)
+    const fn = motorAt(i, n) - pl.torque(n)
     if (fn <= 0) {
       hi = n
       fhi = fn
@@ -107,12 +120,32 @@ export function solveOperatingPoint(
   for (let i = next; i < grid.length; i++) {
     const n = grid[i] ?? ns
     if (n <= root) continue
-    if (net.at(n) > 0) {
+    if (motorAt(i, n) - pl.torque(n) > 0) {
       crawl = true
       break
     }
   }
   return finish(net, 'running', root, crawl, tm0, tl0, onJump)
+}
+
+function scanTableOf(bm: BoundMotor, net: NetTorque): ScanTable | undefined {
+  if (bm.scanTable) return bm.scanTable
+  if (!bm.solvedOnce) {
+    bm.solvedOnce = true
+    return undefined
+  }
+  return buildScanTable(bm, net)
+}
+
+/** The motor's scan speeds from standstill on its supply and its shaft torque at each (evaluations counted). */
+function buildScanTable(bm: BoundMotor, net: NetTorque): ScanTable {
+  const speeds = bm.dipRpms.length === 0 ? plainGrid(bm.syncRpm) : scanGrid(bm.syncRpm, 0, bm.dipRpms, Infinity, [])
+  const torques: number[] = []
+  for (let i = 0; i < speeds.length; i++) torques.push(bm.torque(speeds[i] ?? 0))
+  const table: ScanTable = { speeds, torques, startTorque: bm.torque(0) }
+  net.evaluations += speeds.length + 1
+  bm.scanTable = table
+  return table
 }
 
 function finish(net: NetTorque, status: OperatingPoint['status'], rpm: number, crawl: boolean, tm0: number, tl0: number, onJump = false): OperatingPoint {
@@ -149,6 +182,18 @@ function finish(net: NetTorque, status: OperatingPoint['status'], rpm: number, c
   if (onJump) point.loadJump = true
   assertFinite(point)
   return point
+}
+
+/** Scan speeds from standstill for motors without dips, one shared array per synchronous speed. */
+const plainGrids = new Map<number, readonly number[]>()
+
+function plainGrid(ns: number): readonly number[] {
+  let grid = plainGrids.get(ns)
+  if (!grid) {
+    grid = scanGrid(ns, 0, [], Infinity, [])
+    if (plainGrids.size < 64) plainGrids.set(ns, grid)
+  }
+  return grid
 }
 
 /** Scan speeds above n0: the slip grid merged with the dip knots, ending at min(n_s, maxRpm). */
@@ -245,13 +290,14 @@ export function brent(f: { at(x: number): number }, a0: number, b0: number, fa0:
 }
 
 function assertFinite(p: OperatingPoint): void {
-  const values = [
-    p.rpm, p.slip, p.shaftTorqueNm, p.loadTorqueNm, p.outputW, p.startingTorqueNm, p.loadStartingTorqueNm, p.airGapTorqueNm,
-    p.currentA, p.powerFactor, p.inputW, p.efficiency, p.flowM3s, p.staticPa, p.fanShaftW,
-  ]
-  for (const v of values) {
-    if (v !== undefined && !Number.isFinite(v)) {
-      throw new Error(`solveOperatingPoint produced a non-finite figure (${JSON.stringify(p)}); please report the case`)
-    }
-  }
+  const finite =
+    Number.isFinite(p.rpm) && Number.isFinite(p.slip) && Number.isFinite(p.shaftTorqueNm) && Number.isFinite(p.loadTorqueNm) && Number.isFinite(p.outputW) &&
+    Number.isFinite(p.startingTorqueNm) && Number.isFinite(p.loadStartingTorqueNm) && finiteOrAbsent(p.airGapTorqueNm) && finiteOrAbsent(p.currentA) &&
+    finiteOrAbsent(p.powerFactor) && finiteOrAbsent(p.inputW) && finiteOrAbsent(p.efficiency) && finiteOrAbsent(p.flowM3s) && finiteOrAbsent(p.staticPa) &&
+    finiteOrAbsent(p.fanShaftW)
+  if (!finite) throw new Error(`solveOperatingPoint produced a non-finite figure (${JSON.stringify(p)}); please report the case`)
+}
+
+function finiteOrAbsent(v: number | undefined): boolean {
+  return v === undefined || Number.isFinite(v)
 }

@@ -20,6 +20,9 @@ export function radPerSecond(rpm: number): number {
 
 export function validateSupply(supply: unknown, field = 'supply'): Supply {
   const s = requireObject(supply, field)
+  const { volts, hz } = s
+  // The solver validates its supply on every call: the usual case builds no field names.
+  if (typeof volts === 'number' && typeof hz === 'number' && volts > 0 && hz > 0 && volts < Infinity && hz < Infinity) return { volts, hz }
   return { volts: requirePositive(s.volts, `${field}.volts`), hz: requirePositive(s.hz, `${field}.hz`) }
 }
 

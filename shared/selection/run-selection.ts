@@ -18,6 +18,8 @@ import {
   type Supply,
   prepareMotor,
   insulationClass,
+  FIXED_LOSS_KNEE,
+  type FanLoad,
 } from '../engineering'
 import type { InsulationClassCode, Lifecycle, MotorType } from '../contracts/catalogue.contract'
 import { INSULATION_CLASS_CODES } from '../contracts/catalogue.contract'
@@ -49,6 +51,12 @@ export interface CataloguePerformance {
    */
   hotPrepared?: PreparedMotor
   hotC?: number
+  /**
+   * No shaft torque at the row's volts exceeds this (breakdown torque, plus for circuit models the
+   * most fixed-loss torque, which does not scale with voltage, plus 1 % for the breakdown scan);
+   * scaled with (V/V_row)^2 it bounds the motor on the study supply. Used to skip hopeless solves.
+   */
+  torqueCeilingNm: number
 }
 
 export interface CatalogueEntry {
@@ -72,13 +80,64 @@ export interface CatalogueEntry {
 }
 
 /** Builds the solver-ready form of a performance row once (the server caches it per catalogue revision). */
-export function preparePerformance(row: Omit<CataloguePerformance, 'prepared' | 'breakdownNm' | 'hotPrepared' | 'hotC'>, insulation?: InsulationClassCode): CataloguePerformance {
+export function preparePerformance(row: Omit<CataloguePerformance, 'prepared' | 'breakdownNm' | 'hotPrepared' | 'hotC' | 'torqueCeilingNm'>, insulation?: InsulationClassCode): CataloguePerformance {
   const prepared = prepareMotor(row.motor)
   const breakdownNm = breakdownTorque(prepared, { volts: row.volts, hz: row.hz }).torqueNm
+  const torqueCeilingNm = 1.01 * (Math.max(0, breakdownNm) + fixedLossTorqueMax(row.motor, row.hz))
   const hotC = insulation ? insulationClass(insulation)?.classC : undefined
-  if (row.motor.model !== 'circuit' || hotC === undefined) return { ...row, prepared, breakdownNm }
+  if (row.motor.model !== 'circuit' || hotC === undefined) return { ...row, prepared, breakdownNm, torqueCeilingNm }
   const hot = prepareMotor(hotMotor(row.motor, { referenceC: row.referenceTempC, hotC, rotorConstant: 225 }))
-  return { ...row, prepared, breakdownNm, hotPrepared: hot, hotC }
+  return { ...row, prepared, breakdownNm, torqueCeilingNm, hotPrepared: hot, hotC }
+}
+
+/**
+ * The largest torque a circuit model's fixed losses take (at the knee, where the drag torque
+ * P_fixed / w peaks; see machine.ts); a measured curve already is shaft torque.
+ */
+function fixedLossTorqueMax(motor: MotorModel, hz: number): number {
+  if (motor.model !== 'circuit') return 0
+  const knee = (FIXED_LOSS_KNEE * syncRpm(motor.poles, hz) * 2 * Math.PI) / 60
+  return ((motor.coreLossW ?? 0) + (motor.frictionW ?? 0)) / knee
+}
+
+/**
+ * What a motor must at least deliver for the nominal flow to reach the requirement: fan flow
+ * rises with speed (the system curve meets the fan further right as speed rises), so meeting it
+ * needs n_op >= nRequired, where the motor's torque equals the load's. Where the load torque never
+ * falls with speed (no offset: T goes with n^2; with an offset only if the fan's shaft power rises
+ * with flow) the motor needs T_motor >= T_load(nRequired) somewhere at or above nRequired. A
+ * motor whose torque ceiling stays under that, or whose synchronous speed is below nRequired,
+ * cannot meet the duty at nominal supply: its tier is 2 or worse, decided without a solve.
+ * Null when the load gives no such guarantee (then every candidate is solved).
+ */
+export interface ShortfallTest {
+  nRequired: number
+  torqueAtRequired: number
+}
+
+export function shortfallTest(load: PreparedLoad, fanLoad: FanLoad, requiredFlow: number, hz: number): ShortfallTest | null {
+  const points = fanLoad.fan.points
+  const powerRises = points.every((point, i) => i === 0 || point.shaftW >= (points[i - 1]?.shaftW ?? 0))
+  if ((fanLoad.system.offsetPa ?? 0) > 0 && !powerRises) return null
+  // No motor runs faster than a 2-pole one's synchronous speed, nor the load beyond its curve.
+  const top = Math.min(load.maxRpm, syncRpm(2, hz))
+  const flowAt = (rpm: number) => load.evaluate(rpm).flowM3s ?? 0
+  if (flowAt(top) < requiredFlow) return { nRequired: Number.POSITIVE_INFINITY, torqueAtRequired: Number.POSITIVE_INFINITY }
+  let lo = 0
+  let hi = top
+  for (let i = 0; i < 80 && hi - lo > 1e-9 * top; i++) {
+    const mid = 0.5 * (lo + hi)
+    if (flowAt(mid) >= requiredFlow) hi = mid
+    else lo = mid
+  }
+  // lo is below the required speed (flow short there): the test stays a proof.
+  return { nRequired: lo, torqueAtRequired: load.torque(lo) }
+}
+
+export function provablyShort(test: ShortfallTest, row: CataloguePerformance, poles: number, supply: Supply): boolean {
+  if (syncRpm(poles, supply.hz) < test.nRequired) return true
+  const kv = supply.volts / row.volts
+  return row.torqueCeilingNm * kv * kv < test.torqueAtRequired
 }
 
 /** Supplies within this fraction of a row's volts (same Hz) use that row, scaled by the core. */
@@ -119,16 +178,18 @@ function summary(point: OperatingPoint): PointSummary {
   }
 }
 
+/** Per tap, the row nearest the supply's volts at its Hz within SUPPLY_VOLTS_WINDOW (hot path: no maps). */
 function pickRows(entry: CatalogueEntry, supply: Supply): CataloguePerformance[] {
-  const best = new Map<string, CataloguePerformance>()
+  const picked: CataloguePerformance[] = []
   for (const row of entry.performance) {
     if (row.hz !== supply.hz) continue
-    const off = Math.abs(supply.volts - row.volts) / row.volts
-    if (off > SUPPLY_VOLTS_WINDOW) continue
-    const current = best.get(row.tap)
-    if (!current || Math.abs(supply.volts - current.volts) > Math.abs(supply.volts - row.volts)) best.set(row.tap, row)
+    const off = Math.abs(supply.volts - row.volts)
+    if (off / row.volts > SUPPLY_VOLTS_WINDOW) continue
+    const same = picked.findIndex((other) => other.tap === row.tap)
+    if (same < 0) picked.push(row)
+    else if (Math.abs(supply.volts - (picked[same] as CataloguePerformance).volts) > off) picked[same] = row
   }
-  return [...best.values()]
+  return picked
 }
 
 interface Excluded {
@@ -169,10 +230,16 @@ function sampleLoad(load: PreparedLoad, maxRpm: number, points = 61): CurveSampl
   return samples
 }
 
+/** A candidate after its ranking solves; the rest of its figures are built only if it is returned. */
 interface Scored {
-  candidate: Candidate
+  entry: CatalogueEntry
+  row: CataloguePerformance
+  nominal: OperatingPoint
+  /** Solved when the nominal point meets the duty (the tier depends on it) or when returned. */
+  lowLine?: OperatingPoint
+  hot?: OperatingPoint
   tier: number
-  rows: { prepared: PreparedMotor }
+  score: number
 }
 
 const TIER_LABEL = ['meets the duty at worst case', 'meets at nominal only', 'runs below the duty', 'crawls in a torque dip', 'does not start'] as const
@@ -184,14 +251,136 @@ const TIER_LABEL = ['meets the duty at worst case', 'meets at nominal only', 'ru
  * it; below the duty, the higher flow. score = (4 - tier) x 1000 + a tie-breaker under 1000, so
  * higher is better and the order is the score's.
  */
-function scoreOf(tier: number, candidate: Candidate, duty: { flowM3s: number; staticPa: number }): number {
-  const inputW = candidate.nominal.inputW ?? 0
+function scoreOf(tier: number, nominal: OperatingPoint, duty: { flowM3s: number; staticPa: number }): number {
+  const inputW = nominal.inputW ?? 0
   const dutyEfficiency = inputW > 0 ? (duty.flowM3s * duty.staticPa) / inputW : 0
-  const within = tier <= 1 ? Math.min(999, dutyEfficiency * 999) : Math.min(999, (candidate.nominal.flowM3s / duty.flowM3s) * 999)
+  const within = tier <= 1 ? Math.min(999, dutyEfficiency * 999) : Math.min(999, ((nominal.flowM3s ?? 0) / duty.flowM3s) * 999)
   return (4 - tier) * 1000 + within
 }
 
-export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyInput): SelectionResult {
+function runsClear(point: OperatingPoint | undefined): boolean {
+  return point !== undefined && point.status === 'running' && !point.crawl
+}
+
+function nominalMeets(nominal: OperatingPoint, requiredFlow: number): boolean {
+  return runsClear(nominal) && (nominal.flowM3s ?? 0) >= requiredFlow
+}
+
+/** Low line, and the hot winding at low line only where it could still change the verdict (a cold motor already short stays short hot). */
+function solveWorstCase(item: Scored, load: PreparedLoad, lowSupply: Supply, requiredFlow: number): void {
+  const lowLine = solveOperatingPoint(item.row.prepared, load, lowSupply)
+  item.lowLine = lowLine
+  const lowLineGood = runsClear(lowLine) && (lowLine.flowM3s ?? 0) >= requiredFlow
+  if (item.row.hotPrepared && lowLineGood) item.hot = solveOperatingPoint(item.row.hotPrepared, load, lowSupply)
+}
+
+/** Meets the duty: at nominal and at the worst case (low line, hot winding where modelled), running clear of any torque dip. */
+function meetsDutyOf(item: Scored, requiredFlow: number): boolean {
+  if (!nominalMeets(item.nominal, requiredFlow) || !runsClear(item.lowLine)) return false
+  if (item.hot && !runsClear(item.hot)) return false
+  return worstFlowOf(item) >= requiredFlow
+}
+
+function worstFlowOf(item: Scored): number {
+  return Math.min(item.lowLine?.flowM3s ?? 0, item.hot?.flowM3s ?? Number.POSITIVE_INFINITY)
+}
+
+function tierOf(item: Scored, requiredFlow: number): number {
+  const nominal = item.nominal
+  if (nominal.status !== 'running') return 4
+  if (nominal.crawl) return 3
+  if (meetsDutyOf(item, requiredFlow)) return 0
+  return nominalMeets(nominal, requiredFlow) ? 1 : 2
+}
+
+interface BuildContext {
+  input: StudyInput
+  supply: Supply
+  lowSupply: Supply
+  load: PreparedLoad
+  requiredFlow: number
+  minClass: InsulationClassCode | undefined
+}
+
+/** The full candidate (worst-case points, warnings, energy) for one that is returned. */
+function buildCandidate(item: Scored, rank: number, context: BuildContext): Candidate {
+  const { input, supply, lowSupply, requiredFlow, minClass } = context
+  if (!item.lowLine) solveWorstCase(item, context.load, lowSupply, requiredFlow)
+  const { entry, row, nominal } = item
+  const lowLine = item.lowLine as OperatingPoint
+  const hotPoint = item.hot
+  const dutyFlow = input.duty.flowM3s
+  const meetsDuty = item.tier === 0
+  const isNominalMeeting = nominalMeets(nominal, requiredFlow)
+  const worstFlow = worstFlowOf(item)
+  const nominalFlow = nominal.flowM3s ?? 0
+
+  const breakdownNm = row.breakdownNm * (supply.volts / row.volts) ** 2
+  const breakdownMarginPct = nominal.status === 'running' && nominal.shaftTorqueNm > 0 ? (breakdownNm / nominal.loadTorqueNm - 1) * 100 : null
+  const warnings: CandidateWarning[] = []
+  if (nominal.status !== 'running') warnings.push({ code: 'no-start', message: 'Cannot start the fan: locked-rotor torque is below the load at standstill' })
+  else if (lowLine.status !== 'running') warnings.push({ code: 'no-start', message: `Does not start at low line (${Math.round(lowSupply.volts)} V)` })
+  if (nominal.crawl || lowLine.crawl) {
+    warnings.push({ code: 'crawl', message: `Stuck in a torque dip at ${Math.round((nominal.crawl ? nominal : lowLine).rpm)} r/min${nominal.crawl ? '' : ' at low line'}; it would not reach full speed` })
+  }
+  if (breakdownMarginPct !== null && breakdownMarginPct < (BREAKDOWN_WARN_RATIO - 1) * 100) {
+    warnings.push({ code: 'near-breakdown', message: `Breakdown torque only ${Math.round(breakdownMarginPct)} % above the load; a small rise in load or drop in voltage may stall it` })
+  }
+  if (nominal.fanStall || lowLine.fanStall) warnings.push({ code: 'fan-stall', message: 'The fan runs left of its pressure peak (stall region): noisy and unstable airflow' })
+  if (isNominalMeeting && !meetsDuty) {
+    warnings.push({ code: 'low-line-short', message: `Meets the duty at nominal supply but delivers ${Math.round((worstFlow / dutyFlow) * 100)} % of it at the worst case` })
+  }
+  if (input.ambient.temperatureC > entry.maxAmbientC) {
+    warnings.push({ code: 'ambient-above-rating', message: `Ambient ${input.ambient.temperatureC} °C is above the motor's rating of ${entry.maxAmbientC} °C` })
+  }
+  if (minClass && rankOfClass(entry.insulationClass) < rankOfClass(minClass)) {
+    warnings.push({ code: 'insulation-below-requirement', message: `Insulation class ${entry.insulationClass} is below the required class ${minClass}` })
+  }
+  if (input.constraints.maxInputW !== undefined && (nominal.inputW ?? 0) > input.constraints.maxInputW) {
+    warnings.push({ code: 'input-above-limit', message: `Input ${Math.round(nominal.inputW ?? 0)} W is above the limit of ${input.constraints.maxInputW} W` })
+  }
+  if (entry.lifecycle === 'discontinued') warnings.push({ code: 'discontinued', message: 'Discontinued: not available for new orders' })
+  if (entry.lifecycle === 'not-for-new-designs') warnings.push({ code: 'not-for-new-designs', message: 'Not for new designs: supplied for existing products only' })
+  if (nominal.extrapolated) warnings.push({ code: 'extrapolated', message: 'The operating point lies beyond the measured data' })
+
+  const inputW = nominal.status === 'running' ? (nominal.inputW ?? 0) : 0
+  const kWh = (inputW * input.energy.hoursPerYear) / 1000
+  return {
+    rank,
+    variantId: entry.variantId,
+    partNumber: entry.partNumber,
+    name: entry.name,
+    type: entry.type,
+    poles: entry.poles,
+    tap: row.tap,
+    frameDiameterMm: entry.frameDiameterMm,
+    insulationClass: entry.insulationClass,
+    lifecycle: entry.lifecycle,
+    ratedOutputW: entry.ratedOutputW,
+    nominal: summary(nominal),
+    lowLine: summary(lowLine),
+    hot: hotPoint ? summary(hotPoint) : null,
+    meetsDuty,
+    marginPct: (nominalFlow / dutyFlow - 1) * 100,
+    lowLineMarginPct: ((lowLine.flowM3s ?? 0) / dutyFlow - 1) * 100,
+    breakdownMarginPct,
+    energyPerYearKWh: kWh,
+    energyPerYearMinor: Math.round(kWh * input.energy.tariffMinorPerKWh),
+    lifeEnergyMinor: Math.round(kWh * input.energy.tariffMinorPerKWh * input.energy.lifeYears),
+    warnings,
+    score: item.score,
+  }
+}
+
+export interface SelectionOptions {
+  /** Candidates returned (default CANDIDATE_LIMIT). */
+  limit?: number
+  /** Skip the solves of candidates proven short of the duty when they cannot be returned (default true; off only to check it). */
+  skipHopeless?: boolean
+}
+
+export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyInput, options: SelectionOptions = {}): SelectionResult {
+  const limit = options.limit ?? CANDIDATE_LIMIT
   const fanLoad = studyLoad(input)
   let load: PreparedLoad
   try {
@@ -208,7 +397,19 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
   const scored: Scored[] = []
   const minClass = input.constraints.minInsulationClass
   const lowSupply: Supply = { volts: supply.volts * (1 - input.tolerance.voltagePct / 100), hz: supply.hz }
+  const shortfall = options.skipHopeless === false ? null : shortfallTest(load, fanLoad, requiredFlow, supply.hz)
+  /** Candidates proven short of the duty at nominal supply, solved only if the returned list reaches them. */
+  const deferred: { entry: CatalogueEntry; row: CataloguePerformance }[] = []
+  let meeting = 0
   let considered = 0
+  const score = (entry: CatalogueEntry, row: CataloguePerformance): Scored => {
+    const nominal = solveOperatingPoint(row.prepared, load, supply)
+    const item: Scored = { entry, row, nominal, tier: 4, score: 0 }
+    if (nominalMeets(nominal, requiredFlow)) solveWorstCase(item, load, lowSupply, requiredFlow)
+    item.tier = tierOf(item, requiredFlow)
+    item.score = scoreOf(item.tier, nominal, input.duty)
+    return item
+  }
 
   for (const entry of catalogue) {
     const reason = hardFilter(entry, input)
@@ -223,101 +424,45 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
     }
     for (const row of rows) {
       considered += 1
-      // Nominal and low line for every candidate; the hot winding at low line only where it could
-      // still change the verdict (a cold motor that already falls short stays short when hot).
-      const nominal = solveOperatingPoint(row.prepared, load, supply)
-      const lowLine = solveOperatingPoint(row.prepared, load, lowSupply)
-      const lowLineGood = lowLine.status === 'running' && !lowLine.crawl && (lowLine.flowM3s ?? 0) >= requiredFlow
-      const hotPoint = row.hotPrepared && lowLineGood ? solveOperatingPoint(row.hotPrepared, load, lowSupply) : undefined
-      const worstFlow = Math.min(lowLine.flowM3s ?? 0, hotPoint?.flowM3s ?? Number.POSITIVE_INFINITY)
-      const worstRuns = lowLine.status === 'running' && !lowLine.crawl && (!hotPoint || (hotPoint.status === 'running' && !hotPoint.crawl))
-      const meetsDuty = nominal.status === 'running' && !nominal.crawl && worstRuns && worstFlow >= requiredFlow
-      const nominalFlow = nominal.flowM3s ?? 0
-      const nominalMeets = nominal.status === 'running' && !nominal.crawl && nominalFlow >= requiredFlow
-      const tier = nominal.status !== 'running' ? 4 : nominal.crawl ? 3 : meetsDuty ? 0 : nominalMeets ? 1 : 2
-
-      const breakdownNm = row.breakdownNm * (supply.volts / row.volts) ** 2
-      const breakdownMarginPct = nominal.status === 'running' && nominal.shaftTorqueNm > 0 ? (breakdownNm / nominal.loadTorqueNm - 1) * 100 : null
-      const warnings: CandidateWarning[] = []
-      if (nominal.status !== 'running') warnings.push({ code: 'no-start', message: 'Cannot start the fan: locked-rotor torque is below the load at standstill' })
-      else if (lowLine.status !== 'running') warnings.push({ code: 'no-start', message: `Does not start at low line (${Math.round(lowSupply.volts)} V)` })
-      if (nominal.crawl || lowLine.crawl) {
-        warnings.push({ code: 'crawl', message: `Stuck in a torque dip at ${Math.round((nominal.crawl ? nominal : lowLine).rpm)} r/min${nominal.crawl ? '' : ' at low line'}; it would not reach full speed` })
+      // The nominal point for every candidate; low line (and the hot winding at low line) where
+      // they decide the tier: a nominal point short of the duty is tier 2 to 4 whatever low line
+      // gives. Returned candidates get the rest in buildCandidate(). A candidate proven short
+      // without solving waits: it ranks below every one that meets the duty at nominal.
+      if (shortfall && provablyShort(shortfall, row, entry.poles, supply)) {
+        deferred.push({ entry, row })
+        continue
       }
-      if (breakdownMarginPct !== null && breakdownMarginPct < (BREAKDOWN_WARN_RATIO - 1) * 100) {
-        warnings.push({ code: 'near-breakdown', message: `Breakdown torque only ${Math.round(breakdownMarginPct)} % above the load; a small rise in load or drop in voltage may stall it` })
-      }
-      if (nominal.fanStall || lowLine.fanStall) warnings.push({ code: 'fan-stall', message: 'The fan runs left of its pressure peak (stall region): noisy and unstable airflow' })
-      if (nominalMeets && !meetsDuty) {
-        warnings.push({ code: 'low-line-short', message: `Meets the duty at nominal supply but delivers ${Math.round((worstFlow / dutyFlow) * 100)} % of it at the worst case` })
-      }
-      if (input.ambient.temperatureC > entry.maxAmbientC) {
-        warnings.push({ code: 'ambient-above-rating', message: `Ambient ${input.ambient.temperatureC} °C is above the motor's rating of ${entry.maxAmbientC} °C` })
-      }
-      if (minClass && rankOfClass(entry.insulationClass) < rankOfClass(minClass)) {
-        warnings.push({ code: 'insulation-below-requirement', message: `Insulation class ${entry.insulationClass} is below the required class ${minClass}` })
-      }
-      if (input.constraints.maxInputW !== undefined && (nominal.inputW ?? 0) > input.constraints.maxInputW) {
-        warnings.push({ code: 'input-above-limit', message: `Input ${Math.round(nominal.inputW ?? 0)} W is above the limit of ${input.constraints.maxInputW} W` })
-      }
-      if (entry.lifecycle === 'discontinued') warnings.push({ code: 'discontinued', message: 'Discontinued: not available for new orders' })
-      if (entry.lifecycle === 'not-for-new-designs') warnings.push({ code: 'not-for-new-designs', message: 'Not for new designs: supplied for existing products only' })
-      if (nominal.extrapolated) warnings.push({ code: 'extrapolated', message: 'The operating point lies beyond the measured data' })
-
-      const inputW = nominal.status === 'running' ? (nominal.inputW ?? 0) : 0
-      const kWh = (inputW * input.energy.hoursPerYear) / 1000
-      const candidate: Candidate = {
-        rank: 0,
-        variantId: entry.variantId,
-        partNumber: entry.partNumber,
-        name: entry.name,
-        type: entry.type,
-        poles: entry.poles,
-        tap: row.tap,
-        frameDiameterMm: entry.frameDiameterMm,
-        insulationClass: entry.insulationClass,
-        lifecycle: entry.lifecycle,
-        ratedOutputW: entry.ratedOutputW,
-        nominal: summary(nominal),
-        lowLine: summary(lowLine),
-        hot: hotPoint ? summary(hotPoint) : null,
-        meetsDuty,
-        marginPct: (nominalFlow / dutyFlow - 1) * 100,
-        lowLineMarginPct: ((lowLine.flowM3s ?? 0) / dutyFlow - 1) * 100,
-        breakdownMarginPct,
-        energyPerYearKWh: kWh,
-        energyPerYearMinor: Math.round(kWh * input.energy.tariffMinorPerKWh),
-        lifeEnergyMinor: Math.round(kWh * input.energy.tariffMinorPerKWh * input.energy.lifeYears),
-        warnings,
-        score: 0,
-      }
-      candidate.score = scoreOf(tier, candidate, input.duty)
-      scored.push({ candidate, tier, rows: { prepared: row.prepared } })
+      const item = score(entry, row)
+      if (item.tier <= 1) meeting += 1
+      scored.push(item)
     }
   }
+  if (meeting < limit) for (const { entry, row } of deferred) scored.push(score(entry, row))
+  const skipped = meeting < limit ? 0 : deferred.length
 
-  scored.sort((a, b) => b.candidate.score - a.candidate.score || a.candidate.partNumber.localeCompare(b.candidate.partNumber) || a.candidate.tap.localeCompare(b.candidate.tap))
-  scored.forEach((item, index) => {
-    item.candidate.rank = index + 1
-  })
+  scored.sort((a, b) => b.score - a.score || a.entry.partNumber.localeCompare(b.entry.partNumber) || a.row.tap.localeCompare(b.row.tap))
+  const returned = scored.slice(0, limit)
+  const context: BuildContext = { input, supply, lowSupply, load, requiredFlow, minClass }
+  const candidates = returned.map((item, index) => buildCandidate(item, index + 1, context))
 
-  const charted = scored.slice(0, CHART_CANDIDATES)
-  const curves: CandidateCurves[] = charted.map((item) => ({
-    variantId: item.candidate.variantId,
-    partNumber: item.candidate.partNumber,
-    tap: item.candidate.tap,
-    motorNominal: sampleMotor(item.rows.prepared, supply),
-    motorLowLine: sampleMotor(item.rows.prepared, lowSupply),
+  const curves: CandidateCurves[] = returned.slice(0, CHART_CANDIDATES).map((item) => ({
+    variantId: item.entry.variantId,
+    partNumber: item.entry.partNumber,
+    tap: item.row.tap,
+    motorNominal: sampleMotor(item.row.prepared, supply),
+    motorLowLine: sampleMotor(item.row.prepared, lowSupply),
   }))
-  const fastestSync = Math.max(syncRpm(2, supply.hz) / 2, ...scored.map((item) => syncRpm(item.candidate.poles, supply.hz)))
+  let fastestSync = syncRpm(2, supply.hz) / 2
+  for (const item of scored) fastestSync = Math.max(fastestSync, syncRpm(item.entry.poles, supply.hz))
+  if (skipped > 0) for (const { entry } of deferred) fastestSync = Math.max(fastestSync, syncRpm(entry.poles, supply.hz))
 
   return {
     densityKgM3: fanLoad.density ?? fanLoad.fan.refDensity,
     systemK: fanLoad.system.k,
     considered,
     excluded: [...excluded.entries()].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
-    candidates: scored.slice(0, CANDIDATE_LIMIT).map((item) => item.candidate),
-    candidateTotal: scored.length,
+    candidates,
+    candidateTotal: scored.length + skipped,
     curves,
     loadCurve: sampleLoad(load, fastestSync),
   }
