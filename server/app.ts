@@ -72,6 +72,8 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', config.TRUST_PROXY ? 1 : false)
+  // No body-hash ETags on API answers (a SHA-1 of every body); static files keep their own.
+  app.set('etag', false)
 
   app.use(
     helmet({

@@ -105,7 +105,12 @@ export async function startBenchStack(withClient: boolean): Promise<BenchStack> 
       env.CLIENT_DIR = path.join(dir, 'no-client')
     }
     // The app under load runs in its own process, so the load generator does not share its event loop.
-    server = spawn(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['--tsconfig', 'tsconfig.server.json', 'server/main.ts'], { env, stdio: ['ignore', 'pipe', 'inherit'] })
+    // BENCH_APP_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof") runs the app's node with them,
+    // tsx as its loader (node itself, so the profile is the app's).
+    const nodeArgs = process.env.BENCH_APP_NODE_ARGS?.split(/\s+/).filter(Boolean)
+    server = nodeArgs
+      ? spawn(process.execPath, [...nodeArgs, '--import', 'tsx', 'server/main.ts'], { env: { ...env, TSX_TSCONFIG_PATH: 'tsconfig.server.json' }, stdio: ['ignore', 'pipe', 'inherit'] })
+      : spawn(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['--tsconfig', 'tsconfig.server.json', 'server/main.ts'], { env, stdio: ['ignore', 'pipe', 'inherit'] })
     await waitForLine(server, 'API listening', 120_000)
     const config = loadConfig(env)
     dataSource = createDataSource(config)
