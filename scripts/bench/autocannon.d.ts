@@ -36,6 +36,8 @@ declare module 'autocannon' {
     body?: string
     timeout?: number
     title?: string
+    /** Per-request set-up: may rewrite the request (autocannon 9 `requests[].setupRequest`). */
+    requests?: Array<{ setupRequest?: (request: { path: string; method?: string }) => { path: string; method?: string } }>
   }
 
   export interface Instance extends EventEmitter {
