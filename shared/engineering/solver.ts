@@ -48,6 +48,11 @@ class NetTorque {
     this.evaluations++
     return this.motor.torque(n) - this.load.torque(n)
   }
+
+  motorAt(n: number): number {
+    this.evaluations++
+    return this.motor.torque(n)
+  }
 }
 
 /**
@@ -78,12 +83,6 @@ export function solveOperatingPoint(
   // supplies, run after run, while a sweep over supplies binds each supply once).
   const table = n0 === 0 && pl.jumpRpms.length === 0 && pl.maxRpm >= ns ? scanTableOf(bm, net) : undefined
   const grid = table ? table.speeds : scanGrid(ns, n0, bm.dipRpms, pl.maxRpm, pl.jumpRpms)
-  const motorAt = (i: number, n: number): number => {
-    if (table) return table.torques[i] ?? 0
-    net.evaluations++
-    return bm.torque(n)
-  }
-
   const tm0 = table ? table.startTorque : bm.torque(n0)
   const tl0 = pl.torque(n0)
   if (!table) net.evaluations++
@@ -96,7 +95,7 @@ export function solveOperatingPoint(
   let next = grid.length
   for (let i = 0; i < grid.length; i++) {
     const n = grid[i] ?? ns
-    const fn = motorAt(i, n) - pl.torque(n)
+    const fn = (table ? (table.torques[i] ?? 0) : net.motorAt(n)) - pl.torque(n)
     if (fn <= 0) {
       hi = n
       fhi = fn
@@ -120,7 +119,7 @@ export function solveOperatingPoint(
   for (let i = next; i < grid.length; i++) {
     const n = grid[i] ?? ns
     if (n <= root) continue
-    if (motorAt(i, n) - pl.torque(n) > 0) {
+    if ((table ? (table.torques[i] ?? 0) : net.motorAt(n)) - pl.torque(n) > 0) {
       crawl = true
       break
     }

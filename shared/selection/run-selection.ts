@@ -185,7 +185,8 @@ function pickRows(entry: CatalogueEntry, supply: Supply): CataloguePerformance[]
     if (row.hz !== supply.hz) continue
     const off = Math.abs(supply.volts - row.volts)
     if (off / row.volts > SUPPLY_VOLTS_WINDOW) continue
-    const same = picked.findIndex((other) => other.tap === row.tap)
+    let same = -1
+    for (let i = 0; i < picked.length; i++) if (picked[i]?.tap === row.tap) same = i
     if (same < 0) picked.push(row)
     else if (Math.abs(supply.volts - (picked[same] as CataloguePerformance).volts) > off) picked[same] = row
   }
