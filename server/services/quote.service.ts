@@ -90,6 +90,41 @@ function pricingFields(errors: PricingError[]): Record<string, string> {
   return fields
 }
 
+/** The content of one issued revision: what the PDF shows and what the revision keeps, unchanged. */
+export function buildDocument(args: {
+  number: string
+  letter: string
+  issuedOn: string
+  validUntil: string
+  quote: QuoteRecordEntity
+  issuer: User
+  lines: RevisionLine[]
+  priced: PricedQuote
+  draft: QuoteDraft
+}): QuoteDocument {
+  const { quote, priced, draft } = args
+  const requester = quote.requestedBy
+  return {
+    number: args.number,
+    revision: args.letter,
+    issuedOn: args.issuedOn,
+    validUntil: args.validUntil,
+    currency: priced.currency,
+    maker: MAKER,
+    customer: {
+      name: quote.organisation.name,
+      tier: quote.organisation.tier ?? 'oem',
+      contactName: requester?.name ?? '',
+      contactEmail: requester?.email ?? '',
+    },
+    salesEngineer: { name: args.issuer.name, email: args.issuer.email },
+    lines: args.lines,
+    priced,
+    terms: { incoterm: draft.incoterm, incotermPlace: draft.incotermPlace, paymentTerms: draft.paymentTerms, depositBp: draft.depositBp, notes: draft.notes },
+    copperIndex: { valuePerKg: priced.copperIndex.valuePerKg, baseValuePerKg: priced.baseCopperIndexPerKg, stampedOn: priced.copperIndex.stampedOn },
+  }
+}
+
 export class QuoteService {
   private readonly today: () => string
 
@@ -445,7 +480,7 @@ export class QuoteService {
     const validUntil = addDays(issuedOn, draft.validityDays)
     const issuer = await manager.findOneByOrFail(User, { id: user.id })
 
-    const result = await this.dataSource.transaction(async (tx) => {
+    await this.dataSource.transaction(async (tx) => {
       const locked = await this.load(tx, id, true)
       if (locked.version !== version) throw new ConflictError('Someone changed this quote after you opened it; reload to see their changes', 'stale_version')
       let number = locked.number
@@ -459,25 +494,7 @@ export class QuoteService {
       }
       const letter = locked.currentRevision ? nextRevision(locked.currentRevision) : 'A'
       const requester = locked.requestedBy
-      const doc: QuoteDocument = {
-        number,
-        revision: letter,
-        issuedOn,
-        validUntil,
-        currency: priced.value.currency,
-        maker: MAKER,
-        customer: {
-          name: locked.organisation.name,
-          tier: locked.organisation.tier ?? 'oem',
-          contactName: requester?.name ?? '',
-          contactEmail: requester?.email ?? '',
-        },
-        salesEngineer: { name: issuer.name, email: issuer.email },
-        lines,
-        priced: priced.value,
-        terms: { incoterm: draft.incoterm, incotermPlace: draft.incotermPlace, paymentTerms: draft.paymentTerms, depositBp: draft.depositBp, notes: draft.notes },
-        copperIndex: { valuePerKg: priced.value.copperIndex.valuePerKg, baseValuePerKg: priced.value.baseCopperIndexPerKg, stampedOn: priced.value.copperIndex.stampedOn },
-      }
+      const doc = buildDocument({ number, letter, issuedOn, validUntil, quote: locked, issuer, lines, priced: priced.value, draft })
       const pdf = await this.deps.renderPdf(doc)
       const relative = path.join('quotes', `${randomUUID()}.pdf`)
       mkdirSync(path.join(this.deps.dataDir, 'quotes'), { recursive: true })
@@ -497,9 +514,7 @@ export class QuoteService {
       await this.audit(tx, user, id, 'issued', { revision: `${number}${letter}`, total: priced.value.totals.total })
       const recipients = [requester?.email, ...(await this.buyerEmails(tx, locked.organisationId))].filter((item): item is string => Boolean(item))
       if (recipients.length > 0) await this.deps.mailer.issued(tx, { doc, to: [...new Set(recipients)], pdfPath: relative, quoteId: id })
-      return { number, letter }
     })
-    void result
     return this.get(user, id)
   }
 

@@ -6,7 +6,7 @@ import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Like } from 'typeorm'
 import { ImportBatch, MotorVariant } from '../../server/db/entities'
-import { CATALOGUE_COLUMNS } from '../../server/imports/catalogue-columns'
+import { csvOf, variantRow } from './catalogue-csv-fixtures'
 import { createUser, signInAs, startTestApp, type SignedInAgent, type TestContext } from './support'
 
 let ctx: TestContext
@@ -21,46 +21,15 @@ afterAll(async () => {
 })
 
 function csv(family: string, count: number): string {
-  const row = (index: number): Record<string, string> => ({
-    family_code: family,
-    family_name: `Kill test family ${family}`,
-    family_type: 'shaded-pole',
-    family_description: 'Invented rows for the kill test',
-    family_lifecycle: 'active',
-    part_number: `${family}-${String(index).padStart(5, '0')}`,
-    name: `Kill test motor ${index}`,
-    poles: '4',
-    rated_voltage_v: '120',
-    rated_frequency_hz: '60',
-    dual_frequency: 'no',
-    rated_output_w: String(5 + (index % 20)),
-    rated_speed_rpm: '1550',
-    rated_current_a: '0.42',
-    rated_input_w: '38',
-    locked_rotor_torque_nm: '0.035',
-    breakdown_torque_nm: '0.07',
-    frame_diameter_mm: '84',
-    stack_length_mm: '20',
-    shaft_diameter_mm: '6',
-    shaft_length_mm: '30',
-    mounting: 'through-bolt',
-    rotation: 'ccw',
-    rotation_viewed_from: 'shaft-end',
-    other_rotation_available: 'no',
-    enclosure: 'open',
-    insulation_class: 'B',
-    protection: 'impedance',
-    max_ambient_c: '40',
-    capacitor_uf: '',
-    capacitor_vac: '',
-    copper_mass_g: '95',
-    weight_g: '620',
-    moq: '500',
-    lead_time_days: '42',
-    lifecycle: 'active',
-    speed_taps: 'high',
-  })
-  return [CATALOGUE_COLUMNS.join(','), ...Array.from({ length: count }, (_, index) => CATALOGUE_COLUMNS.map((column) => row(index)[column] ?? '').join(','))].join('\n') + '\n'
+  const rows = Array.from({ length: count }, (_, index) =>
+    variantRow(family, `${family}-${String(index).padStart(5, '0')}`, {
+      family_name: `Kill test family ${family}`,
+      family_description: 'Invented rows for the kill test',
+      name: `Kill test motor ${index}`,
+      rated_output_w: String(5 + (index % 20)),
+    }),
+  )
+  return csvOf(rows)
 }
 
 describe('an import commit killed part-way', () => {
