@@ -220,8 +220,14 @@ export class PreparedFanLoad {
   private seed(i: number, a: number, b: number, c: number): number {
     const table = this.seeds[i]
     if (!table) return a
+    // The last k with table[k] >= c, by bisection (g falls over the table where the crossing lies).
     let k = 0
-    while (k < SEEDS_PER_INTERVAL && (table[k + 1] ?? -Infinity) >= c) k++
+    let top = SEEDS_PER_INTERVAL
+    while (k < top) {
+      const mid = (k + top + 1) >> 1
+      if ((table[mid] ?? -Infinity) >= c) k = mid
+      else top = mid - 1
+    }
     if (k >= SEEDS_PER_INTERVAL) return b
     const g0 = table[k] ?? 0
     const g1 = table[k + 1] ?? 0
