@@ -36,11 +36,29 @@ function chooseTestDir(): string {
 }
 const testDir = chooseTestDir()
 
+/** The suite running now (vitest or playwright), so a stop signal reaches it as well. */
+let runningSuite: ReturnType<typeof spawn> | undefined
+
 function run(command: string, args: string[], env: NodeJS.ProcessEnv): Promise<number> {
   return new Promise((resolve) => {
     const child = spawn(command, args, { env, stdio: 'inherit' })
-    child.on('exit', (code, signal) => resolve(code ?? (signal ? 1 : 0)))
+    runningSuite = child
+    child.on('exit', (code, signal) => {
+      if (runningSuite === child) runningSuite = undefined
+      resolve(code ?? (signal ? 1 : 0))
+    })
   })
+}
+
+/** Stops the running suite (SIGTERM, then SIGKILL after 10 s) and waits for it. */
+async function stopRunningSuite(): Promise<void> {
+  const child = runningSuite
+  if (!child || child.exitCode !== null || child.signalCode !== null) return
+  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()))
+  child.kill('SIGTERM')
+  const timer = setTimeout(() => child.kill('SIGKILL'), 10_000)
+  await exited
+  clearTimeout(timer)
 }
 
 interface VitestJson {
@@ -91,6 +109,7 @@ async function main(): Promise<number> {
   }
   // Interrupted (Ctrl-C, CI timeout): stop what was started before going.
   onShutdown(async () => {
+    await stopRunningSuite()
     await cleanUp()
     console.log('0 passed, 1 failed')
     process.exit(1)
