@@ -401,15 +401,21 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
   const shortfall = options.skipHopeless === false ? null : shortfallTest(load, fanLoad, requiredFlow, supply.hz)
   /** Candidates proven short of the duty at nominal supply, solved only if the returned list reaches them. */
   const deferred: { entry: CatalogueEntry; row: CataloguePerformance }[] = []
-  let meeting = 0
   let considered = 0
-  const score = (entry: CatalogueEntry, row: CataloguePerformance): Scored => {
+  /** Nominal candidates that meet the duty there; their worst case decides tier 0 or 1. */
+  const pending: Scored[] = []
+  const score = (entry: CatalogueEntry, row: CataloguePerformance): void => {
     const nominal = solveOperatingPoint(row.prepared, load, supply)
     const item: Scored = { entry, row, nominal, tier: 4, score: 0 }
-    if (nominalMeets(nominal, requiredFlow)) solveWorstCase(item, load, lowSupply, requiredFlow)
+    if (nominalMeets(nominal, requiredFlow)) {
+      // The score it has if the worst case meets the duty too: the most it can have.
+      item.score = scoreOf(0, nominal, input.duty)
+      pending.push(item)
+      return
+    }
     item.tier = tierOf(item, requiredFlow)
     item.score = scoreOf(item.tier, nominal, input.duty)
-    return item
+    scored.push(item)
   }
 
   for (const entry of catalogue) {
@@ -425,21 +431,41 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
     }
     for (const row of rows) {
       considered += 1
-      // The nominal point for every candidate; low line (and the hot winding at low line) where
-      // they decide the tier: a nominal point short of the duty is tier 2 to 4 whatever low line
-      // gives. Returned candidates get the rest in buildCandidate(). A candidate proven short
-      // without solving waits: it ranks below every one that meets the duty at nominal.
+      // The nominal point for every candidate; low line (and the hot winding at low line) only
+      // where it decides the tier: a nominal point short of the duty is tier 2 to 4 whatever low
+      // line gives. Returned candidates get the rest in buildCandidate(). A candidate proven
+      // short without solving waits: it ranks below every one that meets the duty at nominal.
       if (shortfall && provablyShort(shortfall, row, entry.poles, supply)) {
         deferred.push({ entry, row })
         continue
       }
-      const item = score(entry, row)
-      if (item.tier <= 1) meeting += 1
-      scored.push(item)
+      score(entry, row)
     }
   }
-  if (meeting < limit) for (const { entry, row } of deferred) scored.push(score(entry, row))
-  const skipped = meeting < limit ? 0 : deferred.length
+  const skipped = pending.length < limit ? 0 : deferred.length
+  if (skipped === 0) for (const { entry, row } of deferred) score(entry, row)
+
+  // The worst case for those that meet the duty at nominal, the best possible score first. Once
+  // `limit` of them meet it at the worst case too, one whose best possible score is below the
+  // last of those cannot be returned, nor can any after it: their worst case is left unsolved.
+  pending.sort((a, b) => b.score - a.score)
+  let worstCaseMet = 0
+  let cutoff = Number.NEGATIVE_INFINITY
+  let unresolved = 0
+  for (const [index, item] of pending.entries()) {
+    if (worstCaseMet >= limit && item.score < cutoff) {
+      unresolved = pending.length - index
+      break
+    }
+    solveWorstCase(item, load, lowSupply, requiredFlow)
+    item.tier = tierOf(item, requiredFlow)
+    item.score = scoreOf(item.tier, item.nominal, input.duty)
+    scored.push(item)
+    if (item.tier === 0) {
+      worstCaseMet += 1
+      if (worstCaseMet === limit) cutoff = item.score
+    }
+  }
 
   scored.sort((a, b) => b.score - a.score || a.entry.partNumber.localeCompare(b.entry.partNumber) || a.row.tap.localeCompare(b.row.tap))
   const returned = scored.slice(0, limit)
@@ -456,6 +482,7 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
   let fastestSync = syncRpm(2, supply.hz) / 2
   for (const item of scored) fastestSync = Math.max(fastestSync, syncRpm(item.entry.poles, supply.hz))
   if (skipped > 0) for (const { entry } of deferred) fastestSync = Math.max(fastestSync, syncRpm(entry.poles, supply.hz))
+  if (unresolved > 0) for (const item of pending.slice(pending.length - unresolved)) fastestSync = Math.max(fastestSync, syncRpm(item.entry.poles, supply.hz))
 
   return {
     densityKgM3: fanLoad.density ?? fanLoad.fan.refDensity,
@@ -463,7 +490,7 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
     considered,
     excluded: [...excluded.entries()].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
     candidates,
-    candidateTotal: scored.length + skipped,
+    candidateTotal: scored.length + skipped + unresolved,
     curves,
     loadCurve: sampleLoad(load, fastestSync),
   }
