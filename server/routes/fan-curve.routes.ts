@@ -5,7 +5,7 @@ import { fanCsvUnitsSchema, fanCurveParseBodySchema, MAX_FAN_CSV_BYTES } from '.
 import { ApiRouter } from '../http/api-router'
 import { ValidationError } from '../http/errors'
 import { parseOrThrow } from '../http/validate'
-import { parseFanCurveCsv } from '../imports/fan-curve-csv'
+import { parseFanCurveCsv } from '../../shared/imports/fan-curve-csv'
 import { csvText, singleFileUpload } from '../imports/upload'
 
 export function fanCurveRoutes(): ApiRouter {
