@@ -1,39 +1,11 @@
 // Benchmark: one duty study run over the demo catalogue (and a scaled copy), compute only, no
 // database: median and p95 of `runSelection`. `npm run bench:selection`.
-import { generateDemoCatalogue } from '../server/seed/demo-catalogue'
+import { demoCatalogueEntries } from '../server/seed/demo-entries'
 import { DEMO_FANS } from '../server/seed/demo-fans'
-import { preparePerformance, runSelection, type CatalogueEntry } from '../shared/selection/run-selection'
+import { runSelection, type CatalogueEntry } from '../shared/selection/run-selection'
 import { studyInputSchema } from '../shared/contracts/study.contract'
 
-const catalogue = generateDemoCatalogue()
-const byPart = new Map<string, CatalogueEntry>()
-for (const variant of catalogue.variants) {
-  const family = catalogue.families.find((item) => item.code === variant.familyCode)
-  byPart.set(variant.partNumber, {
-    variantId: variant.partNumber,
-    partNumber: variant.partNumber,
-    name: variant.name,
-    type: family?.type ?? 'psc',
-    poles: variant.poles,
-    ratedOutputW: variant.ratedOutputW,
-    frameDiameterMm: variant.frameDiameterMm,
-    mounting: variant.mounting,
-    enclosure: variant.enclosure,
-    rotation: variant.rotation,
-    rotationViewedFrom: variant.rotationViewedFrom,
-    otherRotationAvailable: variant.otherRotationAvailable,
-    insulationClass: variant.insulationClass,
-    protection: variant.protection,
-    maxAmbientC: variant.maxAmbientC,
-    lifecycle: variant.lifecycle,
-    performance: [],
-  })
-}
-for (const row of catalogue.performance) {
-  const entry = byPart.get(row.partNumber)
-  entry?.performance.push(preparePerformance({ id: `${row.partNumber}-${row.tap}-${row.hz}`, tap: row.tap, volts: row.volts, hz: row.hz, referenceTempC: row.referenceTempC, motor: row.motor }, entry.insulationClass))
-}
-const entries = [...byPart.values()]
+const entries = demoCatalogueEntries()
 const fan = DEMO_FANS.find((item) => item.code.startsWith('RH-'))
 if (!fan) throw new Error('no range-hood demo fan')
 const input = studyInputSchema.parse({
@@ -62,7 +34,8 @@ function measure(list: CatalogueEntry[], runs: number): { median: number; p95: n
 
 measure(entries, 5)
 for (const copies of [1, 4, 20]) {
-  const list = Array.from({ length: copies }, () => entries).flat()
+  // Each copy prepares its own motors (as a catalogue of that size holds that many), under new part numbers.
+  const list = copies === 1 ? entries : Array.from({ length: copies }, (_, copy) => demoCatalogueEntries().map((entry) => ({ ...entry, partNumber: `${entry.partNumber}-${copy}`, variantId: `${entry.variantId}-${copy}` }))).flat()
   const result = measure(list, copies > 4 ? 10 : 30)
   const line = { bench: 'selection-compute', variants: list.length, candidates: result.candidates, medianMs: Number(result.median.toFixed(2)), p95Ms: Number(result.p95.toFixed(2)) }
   console.log(JSON.stringify(line))

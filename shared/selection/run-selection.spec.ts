@@ -1,45 +1,12 @@
 import { describe, expect, it } from 'vitest'
 import { prepareLoad, solveOperatingPoint, type Supply } from '../engineering'
 import { studyInputSchema, type StudyInput } from '../contracts/study.contract'
-import { generateDemoCatalogue } from '../../server/seed/demo-catalogue'
+import { demoCatalogueEntries } from '../../server/seed/demo-entries'
 import { DEMO_FANS } from '../../server/seed/demo-fans'
 import { studyLoad } from './air'
-import { preparePerformance, provablyShort, runSelection, shortfallTest, type CatalogueEntry } from './run-selection'
+import { provablyShort, runSelection, shortfallTest } from './run-selection'
 
-function demoEntries(): CatalogueEntry[] {
-  const catalogue = generateDemoCatalogue()
-  const byPart = new Map<string, CatalogueEntry>()
-  for (const variant of catalogue.variants) {
-    const family = catalogue.families.find((item) => item.code === variant.familyCode)
-    byPart.set(variant.partNumber, {
-      variantId: variant.partNumber,
-      partNumber: variant.partNumber,
-      name: variant.name,
-      type: family?.type ?? 'psc',
-      poles: variant.poles,
-      ratedOutputW: variant.ratedOutputW,
-      frameDiameterMm: variant.frameDiameterMm,
-      mounting: variant.mounting,
-      enclosure: variant.enclosure,
-      rotation: variant.rotation,
-      rotationViewedFrom: variant.rotationViewedFrom,
-      otherRotationAvailable: variant.otherRotationAvailable,
-      insulationClass: variant.insulationClass,
-      protection: variant.protection,
-      maxAmbientC: variant.maxAmbientC,
-      lifecycle: variant.lifecycle,
-      performance: [],
-    })
-  }
-  for (const row of catalogue.performance) {
-    const entry = byPart.get(row.partNumber)
-    if (!entry) continue
-    entry.performance.push(preparePerformance({ id: `${row.partNumber}/${row.tap}/${row.volts}/${row.hz}`, tap: row.tap, volts: row.volts, hz: row.hz, referenceTempC: row.referenceTempC, motor: row.motor }, entry.insulationClass))
-  }
-  return [...byPart.values()]
-}
-
-const entries = demoEntries()
+const entries = demoCatalogueEntries()
 
 function studyFor(fanCode: string, supply: Supply, dutyScale: number, offsetShare: number): StudyInput {
   const fan = DEMO_FANS.find((item) => item.code === fanCode)
