@@ -179,7 +179,9 @@ async function main(): Promise<number> {
       server = spawn(bin('tsx'), ['--tsconfig', 'tsconfig.server.json', 'server/main.ts'], { env, stdio: ['ignore', 'pipe', 'inherit'] })
       await waitForLine(server, 'API listening', 60_000)
       const file = path.join(reports, 'e2e.json')
-      const code = await run(bin('playwright'), ['test'], { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: file })
+      // E2E_ARGS passes files or options to playwright (e.g. E2E_ARGS=tests/e2e/study.e2e.ts).
+      const extra = (process.env.E2E_ARGS ?? '').split(/\s+/).filter(Boolean)
+      const code = await run(bin('playwright'), ['test', ...extra], { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: file })
       tallies.push(readPlaywright(file, code))
     }
   } catch (error) {

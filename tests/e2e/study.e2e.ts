@@ -114,3 +114,32 @@ test.describe('the buyer path through a duty study', () => {
     await shot(page, 'study-anonymous-preview')
   })
 })
+
+test.describe('a fan curve pasted as CSV', () => {
+  test('is read in the units chosen, re-read when a unit changes, and a header names its own units', async ({ page }) => {
+    await signIn(page, 'buyer@larkspur.test', '/studies/new')
+    await page.getByTestId('fan-mode-points').click()
+    await page.getByTestId('study-csv-open').click()
+    const text = page.getByTestId('study-csv-text').locator('textarea').first()
+    // No header: the selectors' units apply (this buyer works in CFM and in wg by default).
+    await text.fill('# 1500 rpm\n0 1.0 30\n100 0.8 40\n200 0.4 50\n300 0 55\n')
+    await expect(page.getByTestId('study-csv-summary')).toContainText('4 good rows')
+    // Switch flow to m3/h: the rows are read again, so 100 in the text is 100 m3/h, about 58.9 CFM.
+    await page.getByTestId('study-csv-flow-unit').click()
+    await page.getByRole('option', { name: 'm³/h' }).click()
+    await expect(page.getByTestId('study-csv-summary')).toContainText('4 good rows')
+    await shot(page, 'study-csv-units-chosen')
+    await page.getByTestId('study-csv-use').click()
+    const flow1 = Number((await page.getByTestId('fan-point-1-flow').locator('input').inputValue()).replace(/,/g, ''))
+    expect(flow1).toBeGreaterThan(58.5)
+    expect(flow1).toBeLessThan(59.3)
+
+    // A header that names its units wins, and the selectors show and lock them.
+    await page.getByTestId('study-csv-open').click()
+    await text.fill('"Flow, (L/s)";"Static (Pa)";"Shaft power (W)"\n0;250;30\n20;200;40\n40;100;50\n60;0;55\n')
+    await expect(page.getByTestId('study-csv-summary')).toContainText('Units from the header: flow, pressure, power')
+    await expect(page.getByTestId('study-csv-flow-unit')).toContainText('L/s')
+    await expect(page.getByRole('combobox', { name: 'Flow: header' })).toBeDisabled()
+    await shot(page, 'study-csv-header-units')
+  })
+})
