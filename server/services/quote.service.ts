@@ -2,7 +2,7 @@
 // deposit and order steps live in server/payments. Every amount is computed here with the pure
 // rules of shared/pricing; nothing a client sends as a price is used.
 import { randomUUID } from 'node:crypto'
-import { mkdirSync, writeFileSync } from 'node:fs'
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs'
 import path from 'node:path'
 import { In, LessThan, type DataSource, type EntityManager } from 'typeorm'
 import type { SessionUser } from '../../shared/contracts/auth.contract'
@@ -480,6 +480,31 @@ export class QuoteService {
     const validUntil = addDays(issuedOn, draft.validityDays)
     const issuer = await manager.findOneByOrFail(User, { id: user.id })
 
+    // The PDF is written inside the transaction (the mail in the outbox names it); if the
+    // transaction then fails, the file goes too, so no document exists for a revision that does not.
+    let pdfWritten: string | undefined
+    try {
+      await this.issueInTransaction({ user, id, version, issuedOn, validUntil, issuer, lines, priced: priced.value, draft, onPdf: (file) => (pdfWritten = file) })
+    } catch (error) {
+      if (pdfWritten) rmSync(pdfWritten, { force: true })
+      throw error
+    }
+    return this.get(user, id)
+  }
+
+  private async issueInTransaction(args: {
+    user: SessionUser
+    id: string
+    version: number
+    issuedOn: string
+    validUntil: string
+    issuer: User
+    lines: RevisionLine[]
+    priced: PricedQuote
+    draft: QuoteDraft
+    onPdf: (file: string) => void
+  }): Promise<void> {
+    const { user, id, version, issuedOn, validUntil, issuer, lines, draft, priced } = args
     await this.dataSource.transaction(async (tx) => {
       const locked = await this.load(tx, id, true)
       if (locked.version !== version) throw new ConflictError('Someone changed this quote after you opened it; reload to see their changes', 'stale_version')
@@ -494,28 +519,28 @@ export class QuoteService {
       }
       const letter = locked.currentRevision ? nextRevision(locked.currentRevision) : 'A'
       const requester = locked.requestedBy
-      const doc = buildDocument({ number, letter, issuedOn, validUntil, quote: locked, issuer, lines, priced: priced.value, draft })
+      const doc = buildDocument({ number, letter, issuedOn, validUntil, quote: locked, issuer, lines, priced, draft })
       const pdf = await this.deps.renderPdf(doc)
       const relative = path.join('quotes', `${randomUUID()}.pdf`)
       mkdirSync(path.join(this.deps.dataDir, 'quotes'), { recursive: true })
       writeFileSync(path.join(this.deps.dataDir, relative), pdf)
+      args.onPdf(path.join(this.deps.dataDir, relative))
       await tx.insert(QuoteRevisionRecord, {
         quoteId: id,
         letter,
         fullNumber: `${number}${letter}`,
         issuedById: user.id,
         validUntil,
-        total: priced.value.totals.total,
-        depositAmount: priced.value.totals.depositAmount,
+        total: priced.totals.total,
+        depositAmount: priced.totals.depositAmount,
         document: doc,
         pdfFile: relative,
       })
-      await tx.update(QuoteRecordEntity, { id }, { number, currentRevision: letter, state: 'issued', validUntil, version: locked.version + 1, currency: priced.value.currency })
-      await this.audit(tx, user, id, 'issued', { revision: `${number}${letter}`, total: priced.value.totals.total })
+      await tx.update(QuoteRecordEntity, { id }, { number, currentRevision: letter, state: 'issued', validUntil, version: locked.version + 1, currency: priced.currency })
+      await this.audit(tx, user, id, 'issued', { revision: `${number}${letter}`, total: priced.totals.total })
       const recipients = [requester?.email, ...(await this.buyerEmails(tx, locked.organisationId))].filter((item): item is string => Boolean(item))
       if (recipients.length > 0) await this.deps.mailer.issued(tx, { doc, to: [...new Set(recipients)], pdfPath: relative, quoteId: id })
     })
-    return this.get(user, id)
   }
 
   private async buyerEmails(manager: EntityManager, organisationId: string): Promise<string[]> {

@@ -1,9 +1,13 @@
 import { randomUUID } from 'node:crypto'
-import { existsSync } from 'node:fs'
+import { existsSync, readdirSync } from 'node:fs'
 import path from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { MailOutbox } from '../../server/db/entities/mail-outbox.entity'
-import { QuoteRecordEntity, QuoteRevisionRecord } from '../../server/db/entities'
+import { QuoteRecordEntity, QuoteRevisionRecord, User } from '../../server/db/entities'
+import { renderQuotePdf } from '../../server/documents/quote-pdf'
+import { CatalogueService } from '../../server/services/catalogue.service'
+import { QuoteService } from '../../server/services/quote.service'
+import { toSessionUser } from '../../server/services/user.service'
 import { blowerStudy, insertVariants } from './catalogue-fixtures'
 import { assignAccount, priceListFor } from './quote-fixtures'
 import { createOrganisation, createUser, signInAs, startTestApp, type SignedInAgent, type TestContext } from './support'
@@ -220,5 +224,37 @@ describe('issuing, revisions and acceptance', () => {
     const issue = await sales.agent.post(`/api/v1/quotes/${id}/issue`).set('X-CSRF-Token', sales.csrf).send({ version: fresh.version })
     expect(issue.status).toBe(400)
     expect(issue.body.error.fields).toHaveProperty('draft.lines.0.quantity')
+  })
+})
+
+describe('an issue that fails part-way', () => {
+  it('writes no revision and leaves no PDF behind when the transaction fails after the PDF is written', async () => {
+    const id = await requestQuote()
+    const quote = await current(id)
+    const dataDir = path.resolve(ctx.config.DATA_DIR)
+    const quotesDir = path.join(dataDir, 'quotes')
+    const filesBefore = existsSync(quotesDir) ? readdirSync(quotesDir).sort() : []
+    // The same service as the app's, whose outbox write fails: the last step of the transaction.
+    const failing = new QuoteService({
+      dataSource: ctx.dataSource,
+      catalogue: new CatalogueService(ctx.dataSource),
+      dataDir,
+      publicUrl: 'http://127.0.0.1',
+      renderPdf: renderQuotePdf,
+      mailer: {
+        issued: async () => {
+          throw new Error('outbox write failed')
+        },
+        accepted: async () => undefined,
+      },
+    })
+    const issuer = toSessionUser(await ctx.dataSource.getRepository(User).findOneOrFail({ where: { id: sales.user.id }, relations: { organisation: true } }))
+    await expect(failing.issue(issuer, id, quote.version)).rejects.toThrow('outbox write failed')
+    const filesAfter = existsSync(quotesDir) ? readdirSync(quotesDir).sort() : []
+    expect(filesAfter).toEqual(filesBefore)
+    expect(await ctx.dataSource.getRepository(QuoteRevisionRecord).countBy({ quoteId: id })).toBe(0)
+    const stored = await current(id)
+    expect(stored.state).not.toBe('issued')
+    expect(stored.version).toBe(quote.version)
   })
 })
