@@ -152,6 +152,8 @@ function finish(net: NetTorque, status: OperatingPoint['status'], rpm: number, c
   net.evaluations++
   const le = net.load.evaluate(rpm)
   const running = status === 'running'
+  // One literal with every field (absent ones undefined, so JSON and `??` read them as missing):
+  // adding the optional fields one by one grew a properties store per point on the hot path.
   const point: OperatingPoint = {
     status,
     rpm,
@@ -159,26 +161,24 @@ function finish(net: NetTorque, status: OperatingPoint['status'], rpm: number, c
     syncRpm: net.motor.syncRpm,
     shaftTorqueNm: me.shaftTorqueNm,
     loadTorqueNm: le.torqueNm,
+    airGapTorqueNm: me.airGapTorqueNm,
+    currentA: me.currentA,
+    powerFactor: me.powerFactor,
+    inputW: me.inputW,
     outputW: running ? (me.outputW ?? 0) : 0,
+    efficiency: me.efficiency === undefined ? undefined : running ? me.efficiency : 0,
+    flowM3s: le.flowM3s,
+    staticPa: le.staticPa,
+    fanShaftW: le.flowM3s === undefined ? undefined : le.shaftW,
+    fanStall: le.fanStall,
+    fanNoFlow: le.fanNoFlow,
     crawl,
+    loadJump: onJump ? true : undefined,
     extrapolated: Boolean(me.extrapolated || le.extrapolated),
     startingTorqueNm: tm0,
     loadStartingTorqueNm: tl0,
     evaluations: net.evaluations,
   }
-  if (me.airGapTorqueNm !== undefined) point.airGapTorqueNm = me.airGapTorqueNm
-  if (me.currentA !== undefined) point.currentA = me.currentA
-  if (me.powerFactor !== undefined) point.powerFactor = me.powerFactor
-  if (me.inputW !== undefined) point.inputW = me.inputW
-  if (me.efficiency !== undefined) point.efficiency = running ? me.efficiency : 0
-  if (le.flowM3s !== undefined) {
-    point.flowM3s = le.flowM3s
-    point.fanShaftW = le.shaftW
-  }
-  if (le.staticPa !== undefined) point.staticPa = le.staticPa
-  if (le.fanStall !== undefined) point.fanStall = le.fanStall
-  if (le.fanNoFlow !== undefined) point.fanNoFlow = le.fanNoFlow
-  if (onJump) point.loadJump = true
   assertFinite(point)
   return point
 }
