@@ -4,7 +4,7 @@ import { studyInputSchema, type StudyInput } from '../contracts/study.contract'
 import { demoCatalogueEntries } from '../../server/seed/demo-entries'
 import { DEMO_FANS } from '../../server/seed/demo-fans'
 import { studyLoad } from './air'
-import { provablyShort, runSelection, shortfallTest } from './run-selection'
+import { assembleResult, mergeShares, picksByShare, provablyShort, rankCatalogue, runSelection, shortAtRequired, shortfallTest, sig, studyFrame } from './run-selection'
 
 const entries = demoCatalogueEntries()
 
@@ -31,38 +31,71 @@ const supplies: Supply[] = [
 ]
 const cases = DEMO_FANS.flatMap((fan) => supplies.flatMap((supply) => [0.6, 1, 1.4].flatMap((scale) => [0, 0.3].map((offset) => ({ fan: fan.code, supply, scale, offset })))))
 
+/** Each case with a shortfall test, its load and required flow, and the demo rows on its supply. */
+function* shortfallCases() {
+  for (const c of cases) {
+    const input = studyFor(c.fan, c.supply, c.scale, c.offset)
+    const fanLoad = studyLoad(input)
+    const load = prepareLoad(fanLoad, 'fan')
+    const required = input.duty.flowM3s * (1 + input.tolerance.minMarginPct / 100)
+    const test = shortfallTest(load, fanLoad, required, c.supply.hz)
+    if (!test) continue
+    const rows = entries.flatMap((entry) =>
+      entry.performance.filter((row) => row.hz === c.supply.hz && Math.abs(c.supply.volts - row.volts) / row.volts <= 0.1).map((row) => ({ entry, row })),
+    )
+    const low: Supply = { volts: c.supply.volts * (1 - input.tolerance.voltagePct / 100), hz: c.supply.hz }
+    yield { c, load, required, test, rows, low, label: `${c.fan} x${c.scale} offset ${c.offset}` }
+  }
+}
+
+/** Whether the motor, solved, meets the required flow (undefined when the fan runs off its curve: not a meeting motor either). */
+function meetsWhenSolved(motor: Parameters<typeof solveOperatingPoint>[0], load: ReturnType<typeof prepareLoad>, supply: Supply, required: number): boolean | undefined {
+  let point
+  try {
+    point = solveOperatingPoint(motor, load, supply)
+  } catch {
+    return undefined
+  }
+  return point.status === 'running' && !point.crawl && (point.flowM3s ?? 0) >= required
+}
+
 describe('skipping hopeless candidates', () => {
   // The skip is a proof, not a guess: every candidate it calls short must be short when solved.
   it('never calls a candidate short that meets the flow at nominal supply', () => {
     let proven = 0
     let checked = 0
-    for (const c of cases) {
-      const input = studyFor(c.fan, c.supply, c.scale, c.offset)
-      const fanLoad = studyLoad(input)
-      const load = prepareLoad(fanLoad, 'fan')
-      const required = input.duty.flowM3s * (1 + input.tolerance.minMarginPct / 100)
-      const test = shortfallTest(load, fanLoad, required, c.supply.hz)
-      if (!test) continue
-      for (const entry of entries) {
-        for (const row of entry.performance) {
-          if (row.hz !== c.supply.hz || Math.abs(c.supply.volts - row.volts) / row.volts > 0.1) continue
-          if (!provablyShort(test, row, entry.poles, c.supply)) continue
-          proven += 1
-          let point
-          try {
-            point = solveOperatingPoint(row.prepared, load, c.supply)
-          } catch {
-            continue // off the end of the fan curve: not a meeting candidate either
-          }
-          checked += 1
-          const meets = point.status === 'running' && !point.crawl && (point.flowM3s ?? 0) >= required
-          expect(meets, `${entry.partNumber} ${row.tap} on ${c.fan} x${c.scale} offset ${c.offset}`).toBe(false)
-        }
+    for (const { c, load, required, test, rows, label } of shortfallCases()) {
+      for (const { entry, row } of rows) {
+        if (!provablyShort(test, row, entry.poles, c.supply)) continue
+        proven += 1
+        const meets = meetsWhenSolved(row.prepared, load, c.supply, required)
+        if (meets === undefined) continue
+        checked += 1
+        expect(meets, `${entry.partNumber} ${row.tap} on ${label}`).toBe(false)
       }
     }
     // The test must have had something to prove: most small motors fall short of the big fans.
     expect(proven).toBeGreaterThan(1000)
     expect(checked).toBeGreaterThan(1000)
+  })
+
+  it('never calls a motor short at required speed (one evaluation) that meets the flow when solved, at nominal, low line or hot', () => {
+    let proven = 0
+    for (const { c, load, required, test, rows, low, label } of shortfallCases()) {
+      for (const { entry, row } of rows) {
+        const motors = [
+          { motor: row.prepared, supply: c.supply },
+          { motor: row.prepared, supply: low },
+          ...(row.hotPrepared ? [{ motor: row.hotPrepared, supply: low }] : []),
+        ]
+        for (const { motor, supply } of motors) {
+          if (!shortAtRequired(test, motor, supply)) continue
+          proven += 1
+          expect(meetsWhenSolved(motor, load, supply, required), `${entry.partNumber} ${row.tap} at ${supply.volts} V on ${label}`).not.toBe(true)
+        }
+      }
+    }
+    expect(proven).toBeGreaterThan(1000)
   })
 
   it('returns the same ranked candidates with and without the skip', () => {
@@ -109,5 +142,42 @@ describe('ranking', () => {
     expect(capped.candidates).toHaveLength(10)
     expect(capped.candidateTotal).toBe(result.candidateTotal)
     expect(capped.candidates).toEqual(result.candidates.slice(0, 10))
+  })
+})
+
+describe('a catalogue ranked in shares', () => {
+  // The worker pool ranks shares of the catalogue apart and merges them; the answer must be the
+  // one a single thread gives over the whole catalogue, figure for figure.
+  const big = Array.from({ length: 3 }, (_, copy) => entries.map((entry) => ({ ...entry, variantId: `${entry.variantId}#${copy}`, partNumber: `${entry.partNumber}-${copy}` }))).flat()
+  for (const shareCount of [2, 3]) {
+    it(`merges ${shareCount} shares into the single-thread answer`, () => {
+      for (const c of cases.filter((item) => item.scale === 1 && item.supply.hz === 60)) {
+        const input = studyFor(c.fan, c.supply, c.scale, c.offset)
+        for (const limit of [25, 500]) {
+          const whole = runSelection(big, input, { limit })
+          const frame = studyFrame(input)
+          const shares = Array.from({ length: shareCount }, (_, s) => big.filter((_, i) => i % shareCount === s))
+          const rankings = shares.map((share) => rankCatalogue(share, frame, { limit }))
+          const picks = picksByShare(mergeShares(rankings.map((r) => r.share), limit), shareCount)
+          const merged = assembleResult(frame, rankings.map((r) => r.share), rankings.map((r, s) => r.build(picks[s] ?? [])))
+          expect(merged, `${c.fan} offset ${c.offset} limit ${limit}`).toEqual(whole)
+        }
+      }
+    })
+  }
+})
+
+describe('answer figures', () => {
+  it('keep six significant digits and print as such', () => {
+    for (const x of [0.07655763245675712, 1154.3493295769583, -3.14159265358979, 279.61068516435404, 123456789.123, 2e-9]) {
+      const rounded = sig(x)
+      expect(Math.abs(rounded - x)).toBeLessThanOrEqual(5e-6 * Math.abs(x))
+      // The significant digits as printed: sign, exponent, point and leading or trailing zeros dropped.
+      const digits = String(rounded).replace(/^-/, '').replace(/e.*$/, '').replace('.', '').replace(/^0+/, '').replace(/0+$/, '')
+      expect(digits.length, String(rounded)).toBeLessThanOrEqual(6)
+    }
+    expect(sig(0)).toBe(0)
+    expect(sig(1154.3493295769583)).toBe(1154.35)
+    expect(sig(0.07655763245675712)).toBe(0.0765576)
   })
 })

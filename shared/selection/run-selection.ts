@@ -15,6 +15,7 @@ import {
   type OperatingPoint,
   type PreparedLoad,
   type PreparedMotor,
+  type BoundMotor,
   type Supply,
   prepareMotor,
   insulationClass,
@@ -140,6 +141,16 @@ export function provablyShort(test: ShortfallTest, row: CataloguePerformance, po
   return row.torqueCeilingNm * kv * kv < test.torqueAtRequired
 }
 
+/**
+ * The second, sharper proof, at the cost of one motor evaluation: a motor whose shaft torque at
+ * nRequired is below the load's there is decelerating at that speed, so accelerating from
+ * standstill it meets the load at a lower speed (or never starts): its nominal flow is short of
+ * the requirement. Holds under the same premise as the first (load torque not falling with speed).
+ */
+export function shortAtRequired(test: ShortfallTest, motor: PreparedMotor, supply: Supply): boolean {
+  return motor.bind(supply).torque(test.nRequired) < test.torqueAtRequired
+}
+
 /** Supplies within this fraction of a row's volts (same Hz) use that row, scaled by the core. */
 export const SUPPLY_VOLTS_WINDOW = 0.1
 /** Breakdown torque under this multiple of the running load torque earns a warning (common practice margin). */
@@ -161,21 +172,103 @@ function facing(direction: 'cw' | 'ccw', from: 'shaft-end' | 'lead-end'): 'cw' |
   return direction === 'cw' ? 'ccw' : 'cw'
 }
 
+/** Significant digits of the figures a run answers with: more than any motor or fan datum holds. */
+export const ANSWER_DIGITS = 6
+
+/**
+ * x to ANSWER_DIGITS significant digits, as the nearest double (prints as that decimal). A run's
+ * answer carries thousands of figures: full doubles doubled its size, to no reader's use.
+ */
+export function sig(x: number): number {
+  if (x === 0 || !Number.isFinite(x)) return x
+  const places = ANSWER_DIGITS - 1 - Math.floor(Math.log10(Math.abs(x)))
+  // Divide or multiply by an exact power of ten, so the result is the double nearest the decimal.
+  if (places >= 0) {
+    const f = 10 ** places
+    return Math.round(x * f) / f
+  }
+  const f = 10 ** -places
+  return Math.round(x / f) * f
+}
+
+function sigOrNull(x: number | undefined): number | null {
+  return x === undefined ? null : sig(x)
+}
+
 function summary(point: OperatingPoint): PointSummary {
   return {
     status: point.status,
-    rpm: point.rpm,
-    flowM3s: point.flowM3s ?? 0,
-    staticPa: point.staticPa ?? 0,
-    inputW: point.inputW ?? null,
-    currentA: point.currentA ?? null,
-    powerFactor: point.powerFactor ?? null,
-    efficiency: point.efficiency ?? null,
-    outputW: point.outputW,
-    shaftTorqueNm: point.shaftTorqueNm,
+    rpm: sig(point.rpm),
+    flowM3s: sig(point.flowM3s ?? 0),
+    staticPa: sig(point.staticPa ?? 0),
+    inputW: sigOrNull(point.inputW),
+    currentA: sigOrNull(point.currentA),
+    powerFactor: sigOrNull(point.powerFactor),
+    efficiency: sigOrNull(point.efficiency),
+    outputW: sig(point.outputW),
+    shaftTorqueNm: sig(point.shaftTorqueNm),
     crawl: point.crawl,
     fanStall: point.fanStall ?? false,
   }
+}
+
+/** Supplies whose plans are kept per catalogue (the last ones asked for). */
+const PLANNED_SUPPLIES = 8
+
+/**
+ * A catalogue's rows on one supply, flat and in catalogue order: the rows of entry i are
+ * rows[first[i]] to rows[first[i + 1] - 1]. The figures the hopeless test reads sit in typed
+ * arrays, so skipping a motor touches no row object (the test is memory-bound on big catalogues).
+ */
+interface SupplyPlan {
+  first: Int32Array
+  rows: CataloguePerformance[]
+  /** Synchronous speed of the row's motor on the supply, r/min. */
+  syncRpm: Float64Array
+  /** The row's torque ceiling scaled to the supply, N m. */
+  ceilingNm: Float64Array
+  /** The row's motor bound to the supply (read straight from here, not through the motor's cache of bindings). */
+  bound: BoundMotor[]
+}
+
+const supplyPlans = new WeakMap<readonly CatalogueEntry[], Map<string, SupplyPlan>>()
+
+/**
+ * The plan of a catalogue on a supply, kept while the catalogue array lives: the server builds a
+ * new array per catalogue revision and never changes one in place.
+ */
+function planOnSupply(catalogue: readonly CatalogueEntry[], supply: Supply): SupplyPlan {
+  let bySupply = supplyPlans.get(catalogue)
+  if (!bySupply) {
+    bySupply = new Map()
+    supplyPlans.set(catalogue, bySupply)
+  }
+  const key = `${supply.volts}|${supply.hz}`
+  const known = bySupply.get(key)
+  if (known) return known
+  if (bySupply.size >= PLANNED_SUPPLIES) {
+    const oldest = bySupply.keys().next().value
+    if (oldest !== undefined) bySupply.delete(oldest)
+  }
+  const first = new Int32Array(catalogue.length + 1)
+  const rows: CataloguePerformance[] = []
+  const bound: BoundMotor[] = []
+  const sync: number[] = []
+  const ceiling: number[] = []
+  for (const [index, entry] of catalogue.entries()) {
+    first[index] = rows.length
+    for (const row of pickRows(entry, supply)) {
+      const kv = supply.volts / row.volts
+      rows.push(row)
+      bound.push(row.prepared.bind(supply))
+      sync.push(syncRpm(entry.poles, supply.hz))
+      ceiling.push(row.torqueCeilingNm * kv * kv)
+    }
+  }
+  first[catalogue.length] = rows.length
+  const plan: SupplyPlan = { first, rows, syncRpm: Float64Array.from(sync), ceilingNm: Float64Array.from(ceiling), bound }
+  bySupply.set(key, plan)
+  return plan
 }
 
 /** Per tap, the row nearest the supply's volts at its Hz within SUPPLY_VOLTS_WINDOW (hot path: no maps). */
@@ -217,7 +310,7 @@ function sampleMotor(prepared: PreparedMotor, supply: Supply, points = 41): Curv
   const samples: CurveSample[] = []
   for (let i = 0; i <= points - 1; i += 1) {
     const rpm = (bound.syncRpm * i) / (points - 1)
-    samples.push({ rpm, torqueNm: bound.torque(rpm) })
+    samples.push({ rpm: sig(rpm), torqueNm: sig(bound.torque(rpm)) })
   }
   return samples
 }
@@ -226,7 +319,7 @@ function sampleLoad(load: PreparedLoad, maxRpm: number, points = 61): CurveSampl
   const samples: CurveSample[] = []
   for (let i = 0; i <= points - 1; i += 1) {
     const rpm = (maxRpm * i) / (points - 1)
-    samples.push({ rpm, torqueNm: load.evaluate(rpm).torqueNm })
+    samples.push({ rpm: sig(rpm), torqueNm: sig(load.evaluate(rpm).torqueNm) })
   }
   return samples
 }
@@ -239,6 +332,8 @@ interface Scored {
   /** Solved when the nominal point meets the duty (the tier depends on it) or when returned. */
   lowLine?: OperatingPoint
   hot?: OperatingPoint
+  /** The worst case was proven short of the duty without its solve (see settleWorstCase). */
+  worstShort?: boolean
   tier: number
   score: number
 }
@@ -267,17 +362,41 @@ function nominalMeets(nominal: OperatingPoint, requiredFlow: number): boolean {
   return runsClear(nominal) && (nominal.flowM3s ?? 0) >= requiredFlow
 }
 
-/** Low line, and the hot winding at low line only where it could still change the verdict (a cold motor already short stays short hot). */
-function solveWorstCase(item: Scored, load: PreparedLoad, lowSupply: Supply, requiredFlow: number): void {
+/**
+ * Low line, and the hot winding at low line only where it could still change the verdict (a cold
+ * motor already short stays short hot). With a shortfall test, a motor proven short at low line
+ * (or hot) by shortAtRequired() is settled without that solve: the solve could only confirm it.
+ */
+function settleWorstCase(item: Scored, load: PreparedLoad, lowSupply: Supply, requiredFlow: number, shortfall: ShortfallTest | null): void {
+  if (shortfall && shortAtRequired(shortfall, item.row.prepared, lowSupply)) {
+    item.worstShort = true
+    return
+  }
   const lowLine = solveOperatingPoint(item.row.prepared, load, lowSupply)
   item.lowLine = lowLine
-  const lowLineGood = runsClear(lowLine) && (lowLine.flowM3s ?? 0) >= requiredFlow
-  if (item.row.hotPrepared && lowLineGood) item.hot = solveOperatingPoint(item.row.hotPrepared, load, lowSupply)
+  const hot = item.row.hotPrepared
+  if (!hot || !lowLineGood(lowLine, requiredFlow)) return
+  if (shortfall && shortAtRequired(shortfall, hot, lowSupply)) {
+    item.worstShort = true
+    return
+  }
+  item.hot = solveOperatingPoint(hot, load, lowSupply)
+}
+
+/** The worst-case points a returned candidate shows, whatever settled its tier. */
+function completeWorstCase(item: Scored, load: PreparedLoad, lowSupply: Supply, requiredFlow: number): void {
+  item.lowLine ??= solveOperatingPoint(item.row.prepared, load, lowSupply)
+  const hot = item.row.hotPrepared
+  if (hot && !item.hot && lowLineGood(item.lowLine, requiredFlow)) item.hot = solveOperatingPoint(hot, load, lowSupply)
+}
+
+function lowLineGood(lowLine: OperatingPoint, requiredFlow: number): boolean {
+  return runsClear(lowLine) && (lowLine.flowM3s ?? 0) >= requiredFlow
 }
 
 /** Meets the duty: at nominal and at the worst case (low line, hot winding where modelled), running clear of any torque dip. */
 function meetsDutyOf(item: Scored, requiredFlow: number): boolean {
-  if (!nominalMeets(item.nominal, requiredFlow) || !runsClear(item.lowLine)) return false
+  if (item.worstShort || !nominalMeets(item.nominal, requiredFlow) || !runsClear(item.lowLine)) return false
   if (item.hot && !runsClear(item.hot)) return false
   return worstFlowOf(item) >= requiredFlow
 }
@@ -306,7 +425,7 @@ interface BuildContext {
 /** The full candidate (worst-case points, warnings, energy) for one that is returned. */
 function buildCandidate(item: Scored, rank: number, context: BuildContext): Candidate {
   const { input, supply, lowSupply, requiredFlow, minClass } = context
-  if (!item.lowLine) solveWorstCase(item, context.load, lowSupply, requiredFlow)
+  completeWorstCase(item, context.load, lowSupply, requiredFlow)
   const { entry, row, nominal } = item
   const lowLine = item.lowLine as OperatingPoint
   const hotPoint = item.hot
@@ -362,14 +481,14 @@ function buildCandidate(item: Scored, rank: number, context: BuildContext): Cand
     lowLine: summary(lowLine),
     hot: hotPoint ? summary(hotPoint) : null,
     meetsDuty,
-    marginPct: (nominalFlow / dutyFlow - 1) * 100,
-    lowLineMarginPct: ((lowLine.flowM3s ?? 0) / dutyFlow - 1) * 100,
-    breakdownMarginPct,
-    energyPerYearKWh: kWh,
+    marginPct: sig((nominalFlow / dutyFlow - 1) * 100),
+    lowLineMarginPct: sig(((lowLine.flowM3s ?? 0) / dutyFlow - 1) * 100),
+    breakdownMarginPct: breakdownMarginPct === null ? null : sig(breakdownMarginPct),
+    energyPerYearKWh: sig(kWh),
     energyPerYearMinor: Math.round(kWh * input.energy.tariffMinorPerKWh),
     lifeEnergyMinor: Math.round(kWh * input.energy.tariffMinorPerKWh * input.energy.lifeYears),
     warnings,
-    score: item.score,
+    score: sig(item.score),
   }
 }
 
@@ -380,8 +499,18 @@ export interface SelectionOptions {
   skipHopeless?: boolean
 }
 
-export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyInput, options: SelectionOptions = {}): SelectionResult {
-  const limit = options.limit ?? CANDIDATE_LIMIT
+/** What every share of a run needs from the study: its load and supplies, built once per run. */
+export interface StudyFrame {
+  input: StudyInput
+  fanLoad: FanLoad
+  load: PreparedLoad
+  supply: Supply
+  lowSupply: Supply
+  requiredFlow: number
+}
+
+/** The study's load and supplies; a study whose inputs do not fit together throws StudyInputError. */
+export function studyFrame(input: StudyInput): StudyFrame {
   const fanLoad = studyLoad(input)
   let load: PreparedLoad
   try {
@@ -391,16 +520,63 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
     throw error
   }
   const supply: Supply = { volts: input.supply.volts, hz: input.supply.hz }
-  const dutyFlow = input.duty.flowM3s
-  const requiredFlow = dutyFlow * (1 + input.tolerance.minMarginPct / 100)
+  const lowSupply: Supply = { volts: supply.volts * (1 - input.tolerance.voltagePct / 100), hz: supply.hz }
+  return { input, fanLoad, load, supply, lowSupply, requiredFlow: input.duty.flowM3s * (1 + input.tolerance.minMarginPct / 100) }
+}
+
+/** Where a candidate stands in the answer's order: higher score first, then part number, then tap. */
+export interface RankKey {
+  score: number
+  partNumber: string
+  tap: string
+}
+
+export function compareRankKeys(a: RankKey, b: RankKey): number {
+  return b.score - a.score || a.partNumber.localeCompare(b.partNumber) || a.tap.localeCompare(b.tap)
+}
+
+/**
+ * One catalogue, or one share of it, ranked for a study: the keys of its best `limit` candidates,
+ * best first, and its counts. The best `limit` of a whole catalogue are among the best `limit` of
+ * its shares, so shares ranked apart (in worker threads) merge into the answer of the whole.
+ */
+export interface RankedShare {
+  keys: RankKey[]
+  considered: number
+  candidateTotal: number
+  excluded: Array<[reason: string, count: number]>
+  /** The fastest synchronous speed among the candidates: the load curve is drawn up to it. */
+  fastestSync: number
+}
+
+/** A built candidate of a share, and its curves when it is charted. */
+export interface BuiltShare {
+  candidates: Candidate[]
+  curves: Array<{ rank: number; curves: CandidateCurves }>
+}
+
+/** Which of a share's ranked candidates the answer takes (index into its keys) and at what rank. */
+export interface SharePick {
+  index: number
+  rank: number
+}
+
+export interface ShareRanking {
+  share: RankedShare
+  /** Builds the picked candidates in full (worst-case points, warnings, energy) and the charted ones' curves. */
+  build(picks: readonly SharePick[]): BuiltShare
+}
+
+/** Ranks one catalogue (or share) for a study; the candidates are built only when picked. */
+export function rankCatalogue(catalogue: readonly CatalogueEntry[], frame: StudyFrame, options: SelectionOptions = {}): ShareRanking {
+  const limit = options.limit ?? CANDIDATE_LIMIT
+  const { input, fanLoad, load, supply, lowSupply, requiredFlow } = frame
   const excluded = new Map<string, number>()
   const exclude = (reason: string) => excluded.set(reason, (excluded.get(reason) ?? 0) + 1)
   const scored: Scored[] = []
-  const minClass = input.constraints.minInsulationClass
-  const lowSupply: Supply = { volts: supply.volts * (1 - input.tolerance.voltagePct / 100), hz: supply.hz }
   const shortfall = options.skipHopeless === false ? null : shortfallTest(load, fanLoad, requiredFlow, supply.hz)
   /** Candidates proven short of the duty at nominal supply, solved only if the returned list reaches them. */
-  const deferred: { entry: CatalogueEntry; row: CataloguePerformance }[] = []
+  const deferred: number[] = []
   let considered = 0
   /** Nominal candidates that meet the duty there; their worst case decides tier 0 or 1. */
   const pending: Scored[] = []
@@ -418,32 +594,41 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
     scored.push(item)
   }
 
-  for (const entry of catalogue) {
+  const plan = planOnSupply(catalogue, supply)
+  /** Entry of each deferred row (parallel to `deferred`). */
+  const deferredEntry: CatalogueEntry[] = []
+  // Index loops on the hot paths: an entries() iterator allocates a pair per step.
+  for (let index = 0; index < catalogue.length; index += 1) {
+    const entry = catalogue[index] as CatalogueEntry
     const reason = hardFilter(entry, input)
     if (reason) {
       exclude(reason)
       continue
     }
-    const rows = pickRows(entry, supply)
-    if (rows.length === 0) {
+    const from = plan.first[index] ?? 0
+    const to = plan.first[index + 1] ?? 0
+    if (to === from) {
       exclude('no data for this supply')
       continue
     }
-    for (const row of rows) {
+    for (let r = from; r < to; r += 1) {
       considered += 1
       // The nominal point for every candidate; low line (and the hot winding at low line) only
       // where it decides the tier: a nominal point short of the duty is tier 2 to 4 whatever low
       // line gives. Returned candidates get the rest in buildCandidate(). A candidate proven
       // short without solving waits: it ranks below every one that meets the duty at nominal.
-      if (shortfall && provablyShort(shortfall, row, entry.poles, supply)) {
-        deferred.push({ entry, row })
+      // The same tests as provablyShort() and shortAtRequired(), read from the plan's arrays.
+      const row = plan.rows[r] as CataloguePerformance
+      if (shortfall && ((plan.syncRpm[r] ?? 0) < shortfall.nRequired || (plan.ceilingNm[r] ?? 0) < shortfall.torqueAtRequired || (plan.bound[r] as BoundMotor).torque(shortfall.nRequired) < shortfall.torqueAtRequired)) {
+        deferred.push(r)
+        deferredEntry.push(entry)
         continue
       }
       score(entry, row)
     }
   }
   const skipped = pending.length < limit ? 0 : deferred.length
-  if (skipped === 0) for (const { entry, row } of deferred) score(entry, row)
+  if (skipped === 0) for (let i = 0; i < deferred.length; i += 1) score(deferredEntry[i] as CatalogueEntry, plan.rows[deferred[i] ?? 0] as CataloguePerformance)
 
   // The worst case for those that meet the duty at nominal, the best possible score first. Once
   // `limit` of them meet it at the worst case too, one whose best possible score is below the
@@ -452,12 +637,13 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
   let worstCaseMet = 0
   let cutoff = Number.NEGATIVE_INFINITY
   let unresolved = 0
-  for (const [index, item] of pending.entries()) {
+  for (let index = 0; index < pending.length; index += 1) {
+    const item = pending[index] as Scored
     if (worstCaseMet >= limit && item.score < cutoff) {
       unresolved = pending.length - index
       break
     }
-    solveWorstCase(item, load, lowSupply, requiredFlow)
+    settleWorstCase(item, load, lowSupply, requiredFlow, shortfall)
     item.tier = tierOf(item, requiredFlow)
     item.score = scoreOf(item.tier, item.nominal, input.duty)
     scored.push(item)
@@ -467,33 +653,82 @@ export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyI
     }
   }
 
+  const keyOf = (item: Scored): RankKey => ({ score: item.score, partNumber: item.entry.partNumber, tap: item.row.tap })
+  // compareRankKeys() on the items themselves (no key objects per comparison).
   scored.sort((a, b) => b.score - a.score || a.entry.partNumber.localeCompare(b.entry.partNumber) || a.row.tap.localeCompare(b.row.tap))
   const returned = scored.slice(0, limit)
-  const context: BuildContext = { input, supply, lowSupply, load, requiredFlow, minClass }
-  const candidates = returned.map((item, index) => buildCandidate(item, index + 1, context))
-
-  const curves: CandidateCurves[] = returned.slice(0, CHART_CANDIDATES).map((item) => ({
-    variantId: item.entry.variantId,
-    partNumber: item.entry.partNumber,
-    tap: item.row.tap,
-    motorNominal: sampleMotor(item.row.prepared, supply),
-    motorLowLine: sampleMotor(item.row.prepared, lowSupply),
-  }))
   let fastestSync = syncRpm(2, supply.hz) / 2
   for (const item of scored) fastestSync = Math.max(fastestSync, syncRpm(item.entry.poles, supply.hz))
-  if (skipped > 0) for (const { entry } of deferred) fastestSync = Math.max(fastestSync, syncRpm(entry.poles, supply.hz))
+  if (skipped > 0) for (const entry of deferredEntry) fastestSync = Math.max(fastestSync, syncRpm(entry.poles, supply.hz))
   if (unresolved > 0) for (const item of pending.slice(pending.length - unresolved)) fastestSync = Math.max(fastestSync, syncRpm(item.entry.poles, supply.hz))
 
+  const context: BuildContext = { input, supply, lowSupply, load, requiredFlow, minClass: input.constraints.minInsulationClass }
   return {
-    densityKgM3: fanLoad.density ?? fanLoad.fan.refDensity,
-    systemK: fanLoad.system.k,
-    considered,
-    excluded: [...excluded.entries()].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
-    candidates,
-    candidateTotal: scored.length + skipped + unresolved,
-    curves,
-    loadCurve: sampleLoad(load, fastestSync),
+    share: { keys: returned.map(keyOf), considered, candidateTotal: scored.length + skipped + unresolved, excluded: [...excluded.entries()], fastestSync },
+    build(picks) {
+      const built: BuiltShare = { candidates: [], curves: [] }
+      for (const pick of picks) {
+        const item = returned[pick.index]
+        if (!item) throw new Error(`rankCatalogue: no ranked candidate ${pick.index}`)
+        built.candidates.push(buildCandidate(item, pick.rank, context))
+        if (pick.rank > CHART_CANDIDATES) continue
+        built.curves.push({
+          rank: pick.rank,
+          curves: {
+            variantId: item.entry.variantId,
+            partNumber: item.entry.partNumber,
+            tap: item.row.tap,
+            motorNominal: sampleMotor(item.row.prepared, supply),
+            motorLowLine: sampleMotor(item.row.prepared, lowSupply),
+          },
+        })
+      }
+      return built
+    },
   }
+}
+
+/** The answer's `limit` best over all shares, in order: for each, its share, index there and rank. */
+export function mergeShares(shares: readonly RankedShare[], limit = CANDIDATE_LIMIT): Array<SharePick & { share: number }> {
+  const all: Array<{ key: RankKey; share: number; index: number }> = []
+  shares.forEach((share, s) => share.keys.forEach((key, index) => all.push({ key, share: s, index })))
+  all.sort((a, b) => compareRankKeys(a.key, b.key))
+  return all.slice(0, limit).map((item, i) => ({ share: item.share, index: item.index, rank: i + 1 }))
+}
+
+/** The run's answer from its shares' counts and their built candidates (any order; sorted by rank here). */
+export function assembleResult(frame: StudyFrame, shares: readonly RankedShare[], built: readonly BuiltShare[]): SelectionResult {
+  const excluded = new Map<string, number>()
+  for (const share of shares) for (const [reason, count] of share.excluded) excluded.set(reason, (excluded.get(reason) ?? 0) + count)
+  const candidates = built.flatMap((part) => part.candidates).sort((a, b) => a.rank - b.rank)
+  const curves = built.flatMap((part) => part.curves).sort((a, b) => a.rank - b.rank).map((item) => item.curves)
+  const fastestSync = shares.reduce((top, share) => Math.max(top, share.fastestSync), syncRpm(2, frame.supply.hz) / 2)
+  return {
+    densityKgM3: frame.fanLoad.density ?? frame.fanLoad.fan.refDensity,
+    systemK: frame.fanLoad.system.k,
+    considered: shares.reduce((sum, share) => sum + share.considered, 0),
+    // Most frequent first; equal counts by reason, so the order does not depend on how the catalogue was shared out.
+    excluded: [...excluded.entries()].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count || a.reason.localeCompare(b.reason)),
+    candidates,
+    candidateTotal: shares.reduce((sum, share) => sum + share.candidateTotal, 0),
+    curves,
+    loadCurve: sampleLoad(frame.load, fastestSync),
+  }
+}
+
+/** Picks per share from mergeShares(), in the answer's order. */
+export function picksByShare(picks: ReadonlyArray<SharePick & { share: number }>, shareCount: number): SharePick[][] {
+  const byShare: SharePick[][] = Array.from({ length: shareCount }, () => [])
+  for (const pick of picks) byShare[pick.share]?.push({ index: pick.index, rank: pick.rank })
+  return byShare
+}
+
+/** A whole study run in this thread: rank, pick, build, assemble. */
+export function runSelection(catalogue: readonly CatalogueEntry[], input: StudyInput, options: SelectionOptions = {}): SelectionResult {
+  const frame = studyFrame(input)
+  const ranking = rankCatalogue(catalogue, frame, options)
+  const [picks = []] = picksByShare(mergeShares([ranking.share], options.limit), 1)
+  return assembleResult(frame, [ranking.share], [ranking.build(picks)])
 }
 
 export { TIER_LABEL }
