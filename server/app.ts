@@ -43,6 +43,7 @@ import { fanCurveRoutes } from './routes/fan-curve.routes'
 import { CatalogueImportService } from './imports/catalogue-import.service'
 import { PerformanceUploadService } from './imports/performance-upload.service'
 import { DatasheetService } from './files/datasheet.service'
+import { SelectionPool, defaultSelectionWorkers } from './selection/selection-pool'
 
 export interface AppDeps {
   config: Config
@@ -104,7 +105,9 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
   const adminAudit = new AdminAuditService(dataSource)
   const invitations = new InvitationService(dataSource)
   const catalogue = new CatalogueService(dataSource)
-  const studies = new StudyService(dataSource, catalogue)
+  const selectionWorkers = config.SELECTION_WORKERS ?? defaultSelectionWorkers()
+  const selectionPool = selectionWorkers > 0 ? new SelectionPool(selectionWorkers) : undefined
+  const studies = new StudyService(dataSource, catalogue, { pool: selectionPool, poolMinVariants: config.SELECTION_POOL_MIN_VARIANTS, log })
   const datasheets = new DatasheetService(dataSource, config.DATA_DIR, log)
   const quotes = new QuoteService({
     dataSource,
@@ -188,6 +191,9 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
     services: { catalogue, studies, quotes },
     routes: routers.flatMap((router) => router.routes.map((route) => ({ ...route, path: `/api${route.path}` }))),
     sessionStore,
-    close: () => sessionStore.close(),
+    close: () => {
+      sessionStore.close()
+      void selectionPool?.close()
+    },
   }
 }

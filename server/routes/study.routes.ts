@@ -27,7 +27,7 @@ export function studyRoutes(studies: StudyService): ApiRouter {
   // Anonymous visitors may run a study without saving it; results carry no prices.
   api.post('/studies/preview-run', 'public', async (req, res) => {
     const { input } = parseOrThrow(studyCreateSchema, req.body)
-    res.json(await studies.solve(input))
+    res.type('application/json').send((await studies.solveRun(input)).json())
   })
 
   api.get('/studies', anyone, async (req, res) => {

@@ -5,7 +5,8 @@ import type { Page } from '../../shared/contracts/admin.contract'
 import type { SessionUser, UnitSystem } from '../../shared/contracts/auth.contract'
 import type { RunChanges, RunResult, StudyInput, StudyRecord, StudyRunRecord, StudySummary } from '../../shared/contracts/study.contract'
 import { StudyInputError } from '../../shared/selection/air'
-import { runSelection } from '../../shared/selection/run-selection'
+import { runSelection, type CatalogueEntry, type SelectionResult } from '../../shared/selection/run-selection'
+import { SelectionPoolError, type SelectionPool } from '../selection/selection-pool'
 import { EngineeringInputError } from '../../shared/engineering'
 import { fromSI } from '../../shared/engineering'
 import { DutyStudy, StudyRun } from '../db/entities'
@@ -51,10 +52,48 @@ function compareRuns(previous: StudyRun, current: RunResult): RunChanges {
   }
 }
 
+export interface StudySolving {
+  /** Worker threads for big catalogues (absent: every run in this thread). */
+  pool?: SelectionPool
+  /** Catalogues with fewer variants than this run in this thread. */
+  poolMinVariants?: number
+  log?: (error: unknown) => void
+}
+
+/** A run's answer as JSON text (what a route sends) and as an object (what is stored), each made from the other once, on first use. */
+export class SolvedRun {
+  private constructor(
+    private text: string | undefined,
+    private value: RunResult | undefined,
+  ) {}
+
+  static of(value: RunResult): SolvedRun {
+    return new SolvedRun(undefined, value)
+  }
+
+  static ofJson(text: string): SolvedRun {
+    return new SolvedRun(text, undefined)
+  }
+
+  json(): string {
+    this.text ??= JSON.stringify(this.value)
+    return this.text
+  }
+
+  result(): RunResult {
+    if (this.value === undefined) {
+      const parsed: RunResult = JSON.parse(this.text ?? 'null')
+      this.value = parsed
+    }
+    return this.value
+  }
+}
+
 export class StudyService {
   constructor(
     private readonly dataSource: DataSource,
     private readonly catalogue: CatalogueService,
+    private readonly solving: StudySolving = {},
   ) {}
 
   private get studies() {
@@ -67,15 +106,37 @@ export class StudyService {
 
   /** Solves the study over the current catalogue. Bad combinations of inputs become field errors. */
   async solve(input: StudyInput): Promise<RunResult> {
+    return (await this.solveRun(input)).result()
+  }
+
+  /** solve(), kept in the form it was made in: JSON text from the worker pool, an object from this thread. */
+  async solveRun(input: StudyInput): Promise<SolvedRun> {
     const started = performance.now()
     const { revision, entries } = await this.catalogue.solverCatalogue()
     try {
-      const result = runSelection(entries, input)
-      return { ...result, ranAt: new Date().toISOString(), durationMs: Math.round((performance.now() - started) * 10) / 10, catalogueRevision: revision }
+      const selected = await this.select(revision, entries, input)
+      const run = { ranAt: new Date().toISOString(), durationMs: Math.round((performance.now() - started) * 10) / 10, catalogueRevision: revision }
+      if (typeof selected !== 'string') return SolvedRun.of({ ...selected, ...run })
+      // The run's own fields appended to the pool's text (an object's JSON ends in its closing brace).
+      return SolvedRun.ofJson(`${selected.slice(0, -1)},${JSON.stringify(run).slice(1)}`)
     } catch (error) {
       if (error instanceof StudyInputError) throw new ValidationError({ [`input.${error.field}`]: error.message }, 'The study inputs do not fit together')
       if (error instanceof EngineeringInputError) throw new ValidationError({ [`input.${error.field}`]: error.message }, 'The study inputs do not fit together')
       throw error
+    }
+  }
+
+  /** The selection, in this thread (an object) or in the pool (its JSON text) for a big catalogue. */
+  private async select(revision: number, entries: CatalogueEntry[], input: StudyInput): Promise<SelectionResult | string> {
+    const { pool, poolMinVariants = 0, log = console.error } = this.solving
+    if (!pool || entries.length < poolMinVariants) return runSelection(entries, input)
+    try {
+      return await pool.runJson(revision, entries, input)
+    } catch (error) {
+      if (!(error instanceof SelectionPoolError)) throw error
+      // The same answer from this thread; the pool starts new workers on the next run.
+      log(error)
+      return runSelection(entries, input)
     }
   }
 
