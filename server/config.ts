@@ -22,7 +22,7 @@ const schema = z.object({
   // Worker threads for duty study runs (0: in the app's own thread); by default one per core, at most 4, none on one core.
   SELECTION_WORKERS: z.coerce.number().int().min(0).max(16).optional(),
   // Catalogues smaller than this run in the app's own thread: passing a study to workers costs more than it saves there.
-  SELECTION_POOL_MIN_VARIANTS: z.coerce.number().int().min(0).default(1000),
+  SELECTION_POOL_MIN_VARIANTS: z.coerce.number().int().min(0).default(10_000),
   SIGNIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(30),
   SIGNIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(10),
   SIGNIN_WINDOW_MINUTES: z.coerce.number().int().positive().default(15),

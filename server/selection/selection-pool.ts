@@ -17,11 +17,11 @@ import {
   mergeShares,
   picksByShare,
   studyFrame,
-  type CatalogueEntry,
+  type CatalogueSource,
   type RankedShare,
   type SelectionResult,
 } from '../../shared/selection/run-selection'
-import type { BuiltShareText, FromWorker, SourceEntry, ToWorker, WorkerError } from './selection-protocol'
+import type { BuiltShareText, FromWorker, ToWorker, WorkerError } from './selection-protocol'
 
 /** One worker per core, at most 4; none on a single core (the app's thread is then the only one). */
 export function defaultSelectionWorkers(): number {
@@ -92,8 +92,8 @@ function errorFrom(error: WorkerError): Error {
   return new SelectionPoolError(`selection worker failed: ${error.message}`)
 }
 
-/** An entry as plain data (the prepared motors are class instances a worker builds for itself). */
-function sourceOf(entry: CatalogueEntry): SourceEntry {
+/** An entry as plain data, also when given prepared (prepared motors are class instances a worker builds for itself). */
+function sourceOf(entry: CatalogueSource): CatalogueSource {
   return {
     ...entry,
     performance: entry.performance.map((row) => ({ id: row.id, tap: row.tap, volts: row.volts, hz: row.hz, referenceTempC: row.referenceTempC, motor: row.motor })),
@@ -114,7 +114,7 @@ export class SelectionPool {
   private workers: SelectionWorker[] = []
   private nextId = 1
   /** The last catalogue shared out, and its shares (one per worker). */
-  private shared: { entries: readonly CatalogueEntry[]; shares: SourceEntry[][] } | undefined
+  private shared: { entries: readonly CatalogueSource[]; shares: CatalogueSource[][] } | undefined
   private closed = false
 
   constructor(private readonly size: number) {
@@ -129,9 +129,9 @@ export class SelectionPool {
     return this.workers
   }
 
-  private sharesOf(entries: readonly CatalogueEntry[]): SourceEntry[][] {
+  private sharesOf(entries: readonly CatalogueSource[]): CatalogueSource[][] {
     if (this.shared?.entries === entries && this.shared.shares.length === this.size) return this.shared.shares
-    const shares: SourceEntry[][] = Array.from({ length: this.size }, () => [])
+    const shares: CatalogueSource[][] = Array.from({ length: this.size }, () => [])
     // Entries spread by a multiplicative hash of their place (Knuth's 2654435761, high bits):
     // families and sizes sit together in part-number order, and an even mix keeps the shares' work even.
     entries.forEach((entry, index) => shares[Math.floor((((index * 2654435761) >>> 0) / 2 ** 32) * this.size)]?.push(sourceOf(entry)))
@@ -145,7 +145,7 @@ export class SelectionPool {
    * study come back as StudyInputError or EngineeringInputError, as from runSelection(); anything
    * else the pool hits is a SelectionPoolError.
    */
-  async runJson(revision: number, entries: readonly CatalogueEntry[], input: StudyInput, limit = CANDIDATE_LIMIT): Promise<string> {
+  async runJson(revision: number, entries: readonly CatalogueSource[], input: StudyInput, limit = CANDIDATE_LIMIT): Promise<string> {
     const frame = studyFrame(input)
     const workers = this.ensureWorkers()
     const shares = this.sharesOf(entries)

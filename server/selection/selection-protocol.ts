@@ -3,14 +3,10 @@
  * The catalogue travels as plain data: each worker prepares its own motors.
  */
 import type { StudyInput } from '../../shared/contracts/study.contract'
-import type { CatalogueEntry, CataloguePerformance, RankedShare, SharePick } from '../../shared/selection/run-selection'
-
-/** A performance row as stored, before preparePerformance(). */
-export type SourcePerformance = Pick<CataloguePerformance, 'id' | 'tap' | 'volts' | 'hz' | 'referenceTempC' | 'motor'>
-export type SourceEntry = Omit<CatalogueEntry, 'performance'> & { performance: SourcePerformance[] }
+import type { CatalogueSource, RankedShare, SharePick } from '../../shared/selection/run-selection'
 
 export type ToWorker =
-  | { type: 'load'; revision: number; entries: SourceEntry[] }
+  | { type: 'load'; revision: number; entries: CatalogueSource[] }
   | { type: 'rank'; id: number; revision: number; input: StudyInput; limit: number }
   | { type: 'build'; id: number; picks: SharePick[] }
   | { type: 'drop'; id: number }

@@ -5,7 +5,7 @@
 import { parentPort } from 'node:worker_threads'
 import { EngineeringInputError } from '../../shared/engineering'
 import { StudyInputError } from '../../shared/selection/air'
-import { preparePerformance, rankCatalogue, studyFrame, type CatalogueEntry, type ShareRanking } from '../../shared/selection/run-selection'
+import { prepareEntry, rankCatalogue, studyFrame, type CatalogueEntry, type ShareRanking } from '../../shared/selection/run-selection'
 import type { FromWorker, ToWorker, WorkerError } from './selection-protocol'
 
 /** Rankings waiting for their build step; a request the pool gave up on is dropped after this many. */
@@ -25,7 +25,9 @@ function handle(message: ToWorker): FromWorker | undefined {
   switch (message.type) {
     case 'load':
       revision = message.revision
-      entries = message.entries.map((entry) => ({ ...entry, performance: entry.performance.map((row) => preparePerformance(row, entry.insulationClass)) }))
+      entries = message.entries.map((source) =>
+        prepareEntry(source, (row, error) => console.error(`performance ${row.id} of ${source.partNumber} skipped: ${error instanceof Error ? error.message : String(error)}`)),
+      )
       return undefined
     case 'rank': {
       if (message.revision !== revision) throw new Error(`asked to rank revision ${message.revision} holding ${revision}`)

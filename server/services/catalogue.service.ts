@@ -9,7 +9,7 @@ import type {
   VariantListQuery,
   VariantRow,
 } from '../../shared/contracts/catalogue.contract'
-import { preparePerformance, type CatalogueEntry } from '../../shared/selection/run-selection'
+import { prepareEntry, type CatalogueEntry, type CatalogueSource } from '../../shared/selection/run-selection'
 import { CatalogueRevision, Datasheet, DemoFan, MotorPerformance, MotorVariant } from '../db/entities'
 import { NotFoundError } from '../http/errors'
 
@@ -88,8 +88,9 @@ export const REVISION_TTL_MS = 1000
 const ANSWERS_KEPT = 2000
 
 export class CatalogueService {
-  private cache: { revision: number; entries: CatalogueEntry[]; byVariant: Map<string, CatalogueEntry> } | undefined
-  private loading: Promise<{ revision: number; entries: CatalogueEntry[] }> | undefined
+  /** The catalogue as loaded at a revision, and its solver-ready form once a run in this thread asked for it. */
+  private cache: LoadedCatalogue | undefined
+  private loading: Promise<LoadedCatalogue> | undefined
   private revisionRead: { revision: number; at: number; bumps: number } | undefined
   /** Answers keyed by revision and request; shared objects, so callers must not change them. */
   private readonly answers = new LRUCache<string, object>({ max: ANSWERS_KEPT })
@@ -242,8 +243,11 @@ export class CatalogueService {
     return row?.revision ?? 0
   }
 
-  /** Every variant with its current performance rows, prepared for the solver; cached per revision. */
-  async solverCatalogue(): Promise<{ revision: number; entries: CatalogueEntry[] }> {
+  /**
+   * Every variant with its current performance rows as stored, cached per revision: what the
+   * worker pool takes (each worker prepares its share), and cheap to hold.
+   */
+  async catalogueSources(): Promise<LoadedCatalogue> {
     const revision = await this.currentRevision()
     if (this.cache?.revision === revision) return this.cache
     this.loading ??= this.load(revision).finally(() => {
@@ -252,12 +256,26 @@ export class CatalogueService {
     return this.loading
   }
 
-  private async load(revision: number): Promise<{ revision: number; entries: CatalogueEntry[] }> {
+  /** The same catalogue prepared for the solver (in this thread), built on first use per revision. */
+  async solverCatalogue(): Promise<{ revision: number; entries: CatalogueEntry[] }> {
+    const cache = await this.catalogueSources()
+    cache.prepared ??= cache.sources.map((source) => prepareSource(source))
+    return { revision: cache.revision, entries: cache.prepared }
+  }
+
+  /** One variant's entry prepared for the solver (a quote line's duty point), or undefined. */
+  async solverEntry(partNumber: string): Promise<CatalogueEntry | undefined> {
+    const { sources } = await this.catalogueSources()
+    const source = sources.find((item) => item.partNumber === partNumber)
+    return source ? prepareSource(source) : undefined
+  }
+
+  private async load(revision: number): Promise<LoadedCatalogue> {
     const variants = await this.dataSource.getRepository(MotorVariant).find({ order: { partNumber: 'ASC' } })
     const rows = await this.dataSource.getRepository(MotorPerformance).find({ where: { current: true } })
-    const byVariant = new Map<string, CatalogueEntry>()
-    const entries: CatalogueEntry[] = variants.map((variant) => {
-      const entry: CatalogueEntry = {
+    const byVariant = new Map<string, CatalogueSource>()
+    const sources: CatalogueSource[] = variants.map((variant) => {
+      const source: CatalogueSource = {
         variantId: variant.id,
         partNumber: variant.partNumber,
         name: variant.name,
@@ -276,22 +294,27 @@ export class CatalogueService {
         lifecycle: variant.lifecycle,
         performance: [],
       }
-      byVariant.set(variant.id, entry)
-      return entry
+      byVariant.set(variant.id, source)
+      return source
     })
     for (const row of rows) {
-      const entry = byVariant.get(row.variantId)
-      if (!entry) continue
-      try {
-        entry.performance.push(preparePerformance({ id: row.id, tap: row.tap, volts: row.volts, hz: row.hz, referenceTempC: row.referenceTempC, motor: row.motor }, entry.insulationClass))
-      } catch (error) {
-        // Data that the core refuses is left out of selection rather than breaking every run.
-        console.error(`performance ${row.id} of ${entry.partNumber} skipped: ${error instanceof Error ? error.message : String(error)}`)
-      }
+      byVariant.get(row.variantId)?.performance.push({ id: row.id, tap: row.tap, volts: row.volts, hz: row.hz, referenceTempC: row.referenceTempC, motor: row.motor })
     }
-    this.cache = { revision, entries, byVariant }
+    this.cache = { revision, sources }
     return this.cache
   }
+}
+
+interface LoadedCatalogue {
+  revision: number
+  sources: CatalogueSource[]
+  /** The solver-ready form, once a run in this thread asked for it. */
+  prepared?: CatalogueEntry[]
+}
+
+/** prepareEntry() with refused rows logged (data that the core refuses is left out of selection). */
+function prepareSource(source: CatalogueSource): CatalogueEntry {
+  return prepareEntry(source, (row, error) => console.error(`performance ${row.id} of ${source.partNumber} skipped: ${error instanceof Error ? error.message : String(error)}`))
 }
 
 function mountingCode(value: string): VariantDetail['mounting'] {

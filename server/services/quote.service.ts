@@ -406,10 +406,9 @@ export class QuoteService {
     const study = await manager.findOneBy(DutyStudy, { id: studyId })
     if (!study) return null
     const input = studyInputSchema.parse(study.input)
-    const { entries } = await this.deps.catalogue.solverCatalogue()
-    const entry = entries.filter((item) => item.partNumber === partNumber)
-    if (entry.length === 0) return null
-    const result = runSelection(entry, { ...input, constraints: { ...input.constraints, activeOnly: false } })
+    const entry = await this.deps.catalogue.solverEntry(partNumber)
+    if (!entry) return null
+    const result = runSelection([entry], { ...input, constraints: { ...input.constraints, activeOnly: false } })
     const candidate = result.candidates.find((item) => !tap || item.tap === tap) ?? result.candidates[0]
     if (!candidate) return null
     const curves = result.curves.find((item) => item.tap === candidate.tap)

@@ -5,7 +5,7 @@ import type { Page } from '../../shared/contracts/admin.contract'
 import type { SessionUser, UnitSystem } from '../../shared/contracts/auth.contract'
 import type { RunChanges, RunResult, StudyInput, StudyRecord, StudyRunRecord, StudySummary } from '../../shared/contracts/study.contract'
 import { StudyInputError } from '../../shared/selection/air'
-import { runSelection, type CatalogueEntry, type SelectionResult } from '../../shared/selection/run-selection'
+import { runSelection, type SelectionResult } from '../../shared/selection/run-selection'
 import { SelectionPoolError, type SelectionPool } from '../selection/selection-pool'
 import { EngineeringInputError } from '../../shared/engineering'
 import { fromSI } from '../../shared/engineering'
@@ -112,9 +112,8 @@ export class StudyService {
   /** solve(), kept in the form it was made in: JSON text from the worker pool, an object from this thread. */
   async solveRun(input: StudyInput): Promise<SolvedRun> {
     const started = performance.now()
-    const { revision, entries } = await this.catalogue.solverCatalogue()
     try {
-      const selected = await this.select(revision, entries, input)
+      const { revision, selected } = await this.select(input)
       const run = { ranAt: new Date().toISOString(), durationMs: Math.round((performance.now() - started) * 10) / 10, catalogueRevision: revision }
       if (typeof selected !== 'string') return SolvedRun.of({ ...selected, ...run })
       // The run's own fields appended to the pool's text (an object's JSON ends in its closing brace).
@@ -126,18 +125,26 @@ export class StudyService {
     }
   }
 
-  /** The selection, in this thread (an object) or in the pool (its JSON text) for a big catalogue. */
-  private async select(revision: number, entries: CatalogueEntry[], input: StudyInput): Promise<SelectionResult | string> {
+  /**
+   * The selection over the current catalogue: in the worker pool for a big catalogue (its JSON
+   * text; the workers prepare their shares, this thread never does), else here (an object).
+   */
+  private async select(input: StudyInput): Promise<{ revision: number; selected: SelectionResult | string }> {
     const { pool, poolMinVariants = 0, log = console.error } = this.solving
-    if (!pool || entries.length < poolMinVariants) return runSelection(entries, input)
-    try {
-      return await pool.runJson(revision, entries, input)
-    } catch (error) {
-      if (!(error instanceof SelectionPoolError)) throw error
-      // The same answer from this thread; the pool starts new workers on the next run.
-      log(error)
-      return runSelection(entries, input)
+    if (pool) {
+      const { revision, sources } = await this.catalogue.catalogueSources()
+      if (sources.length >= poolMinVariants) {
+        try {
+          return { revision, selected: await pool.runJson(revision, sources, input) }
+        } catch (error) {
+          if (!(error instanceof SelectionPoolError)) throw error
+          // The same answer from this thread; the pool starts new workers on the next run.
+          log(error)
+        }
+      }
     }
+    const { revision, entries } = await this.catalogue.solverCatalogue()
+    return { revision, selected: runSelection(entries, input) }
   }
 
   private async findReadable(user: SessionUser, id: string): Promise<DutyStudy> {

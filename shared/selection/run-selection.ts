@@ -80,6 +80,27 @@ export interface CatalogueEntry {
   performance: CataloguePerformance[]
 }
 
+/** A performance row as stored, before preparePerformance(). */
+export type SourcePerformance = Pick<CataloguePerformance, 'id' | 'tap' | 'volts' | 'hz' | 'referenceTempC' | 'motor'>
+/** A catalogue entry as stored: plain data (it crosses to worker threads), prepared by prepareEntry(). */
+export type CatalogueSource = Omit<CatalogueEntry, 'performance'> & { performance: SourcePerformance[] }
+
+/**
+ * The solver-ready entry. A row that the core refuses is left out of selection rather than
+ * breaking every run, and reported to `refused`.
+ */
+export function prepareEntry(source: CatalogueSource, refused: (row: SourcePerformance, error: unknown) => void = () => undefined): CatalogueEntry {
+  const performance: CataloguePerformance[] = []
+  for (const row of source.performance) {
+    try {
+      performance.push(preparePerformance(row, source.insulationClass))
+    } catch (error) {
+      refused(row, error)
+    }
+  }
+  return { ...source, performance }
+}
+
 /** Builds the solver-ready form of a performance row once (the server caches it per catalogue revision). */
 export function preparePerformance(row: Omit<CataloguePerformance, 'prepared' | 'breakdownNm' | 'hotPrepared' | 'hotC' | 'torqueCeilingNm'>, insulation?: InsulationClassCode): CataloguePerformance {
   const prepared = prepareMotor(row.motor)
