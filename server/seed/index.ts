@@ -5,6 +5,7 @@ import { SeedMarker } from '../db/entities'
 import { seedDemoUsers } from './demo-users'
 import { seedDemoCatalogue } from './seed-catalogue'
 import { seedDemoPricing } from './demo-pricing'
+import { seedDemoActivity } from './demo-activity'
 
 export interface SeedStep {
   step: string
@@ -15,6 +16,8 @@ export const SEED_STEPS: SeedStep[] = [
   { step: 'demo-users-v1', run: seedDemoUsers },
   { step: 'demo-catalogue-v1', run: seedDemoCatalogue },
   { step: 'demo-pricing-v1', run: seedDemoPricing },
+  // After the pricing: the request takes the account's sales engineer and currency.
+  { step: 'demo-activity-v1', run: seedDemoActivity },
 ]
 
 export async function seedDemoData(dataSource: DataSource, steps: SeedStep[] = SEED_STEPS): Promise<string[]> {

@@ -125,6 +125,56 @@ export function buildDocument(args: {
   }
 }
 
+/**
+ * A buyer's request as a quote in state 'requested' with its draft started from the request (the
+ * account's sales engineer and currency, FCA at the works, 30 days, 30 % deposit), audited.
+ * QuoteService.request() runs it after its checks; the demo seed runs it for the demo request.
+ */
+export async function recordQuoteRequest(
+  tx: EntityManager,
+  buyer: { id: string; email: string; organisationId: string },
+  request: QuoteRequest,
+): Promise<QuoteRecordEntity> {
+  const terms = await tx.findOneBy(AccountTerms, { organisationId: buyer.organisationId })
+  const list = terms ? await tx.findOneBy(PriceListRecord, { id: terms.priceListId }) : null
+  const created = await tx.save(
+    tx.create(QuoteRecordEntity, {
+      state: 'requested',
+      organisationId: buyer.organisationId,
+      requestedById: buyer.id,
+      salesEngineerId: terms?.salesEngineerId ?? null,
+      studyId: request.studyId ?? null,
+      currency: list?.currency ?? 'USD',
+      request,
+      draft: {
+        lines: [{ partNumber: request.partNumber, tap: request.tap, quantity: request.quantityPerYear, options: [], extraDiscountBp: 0, studyId: request.studyId }],
+        nre: [],
+        incoterm: 'FCA',
+        incotermPlace: 'Ashcombe works, Dunmore OH',
+        validityDays: 30,
+        paymentTerms: 'Deposit with order, balance 30 days net from shipment',
+        depositBp: 3000,
+        notes: request.note ? `Buyer's note: ${request.note}` : '',
+      },
+      currentRevision: null,
+      validUntil: null,
+      number: null,
+      withdrawnReason: null,
+    }),
+  )
+  await tx.save(
+    tx.create(AuditEntry, {
+      actorId: buyer.id,
+      actorEmail: buyer.email,
+      entity: 'quote',
+      entityId: created.id,
+      action: 'requested',
+      detail: { partNumber: request.partNumber, quantityPerYear: request.quantityPerYear },
+    }),
+  )
+  return created
+}
+
 export class QuoteService {
   private readonly today: () => string
 
@@ -318,37 +368,7 @@ export class QuoteService {
       const study = await manager.findOneBy(DutyStudy, { id: request.studyId })
       if (!study || study.organisationId !== user.organisation.id) throw new ValidationError({ studyId: 'no such duty study of your organisation' })
     }
-    const terms = await manager.findOneBy(AccountTerms, { organisationId: user.organisation.id })
-    const list = terms ? await manager.findOneBy(PriceListRecord, { id: terms.priceListId }) : null
-    const quote = await this.dataSource.transaction(async (tx) => {
-      const created = await tx.save(
-        tx.create(QuoteRecordEntity, {
-          state: 'requested',
-          organisationId: user.organisation.id,
-          requestedById: user.id,
-          salesEngineerId: terms?.salesEngineerId ?? null,
-          studyId: request.studyId ?? null,
-          currency: list?.currency ?? 'USD',
-          request,
-          draft: {
-            lines: [{ partNumber: request.partNumber, tap: request.tap, quantity: request.quantityPerYear, options: [], extraDiscountBp: 0, studyId: request.studyId }],
-            nre: [],
-            incoterm: 'FCA',
-            incotermPlace: 'Ashcombe works, Dunmore OH',
-            validityDays: 30,
-            paymentTerms: 'Deposit with order, balance 30 days net from shipment',
-            depositBp: 3000,
-            notes: request.note ? `Buyer's note: ${request.note}` : '',
-          },
-          currentRevision: null,
-          validUntil: null,
-          number: null,
-          withdrawnReason: null,
-        }),
-      )
-      await this.audit(tx, user, created.id, 'requested', { partNumber: request.partNumber, quantityPerYear: request.quantityPerYear })
-      return created
-    })
+    const quote = await this.dataSource.transaction((tx) => recordQuoteRequest(tx, { id: user.id, email: user.email, organisationId: user.organisation.id }, request))
     return this.get(user, quote.id)
   }
 

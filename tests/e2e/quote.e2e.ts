@@ -228,3 +228,17 @@ test.describe('a quote from a duty study to a paid deposit and a confirmed order
     await shot(buyer, 'quote-16-buyer-order-confirmed')
   })
 })
+
+test('a fresh portal shows the demo work in progress: the Larkspur buyer’s study and the request sales finds waiting', async ({ browser }) => {
+  // Seeded once per database by server/seed/demo-activity.ts.
+  const sales = await newSignedInPage(browser, 'sales@ashcombe.test', '/quotes')
+  const request = sales.locator('[data-test^="quote-row-"]', { hasText: '× 8,000' }).filter({ hasText: 'Larkspur Air Appliances' })
+  await expect(request.first()).toContainText('Request received')
+  await request.first().click()
+  await expect(sales.getByTestId('quote-editor')).toBeVisible()
+  await expect(sales.getByText('Pilot run for the spring canopy line').first()).toBeVisible()
+  await expect(sales.getByTestId('price-line-0')).toBeVisible()
+
+  const buyer = await newSignedInPage(browser, 'buyer@larkspur.test', '/studies')
+  await expect(buyer.getByText('Range hood, 600 mm canopy (120 V 60 Hz)')).toBeVisible()
+})
