@@ -10,7 +10,7 @@ import { demoCatalogueEntries } from './demo-entries'
 import { DEMO_FANS } from './demo-fans'
 
 const BUYER = 'buyer@larkspur.test'
-const STUDY_NAME = 'Range hood, 600 mm canopy (120 V 60 Hz)'
+const STUDY_NAME = 'Range hood, 600 mm canopy'
 
 export function demoStudyInput(): StudyInput {
   const fan = DEMO_FANS.find((item) => item.code === 'RH-BLOWER-A')
