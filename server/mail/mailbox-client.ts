@@ -2,7 +2,7 @@
 // The fake answers only on loopback and has no authentication; the app's admin role guards it.
 import { Readable } from 'node:stream'
 import { z } from 'zod'
-import type { MailDetail, MailSummary } from '../fakes/mail/mail-api'
+import type { MailDetail, MailSummary } from '../../shared/contracts/mailbox.contract'
 import { NotFoundError, ServiceUnavailableError } from '../http/errors'
 
 export type { MailDetail, MailSummary }

@@ -2,7 +2,8 @@
 import { z } from 'zod'
 import type { DataSource } from 'typeorm'
 import { pageQuerySchema, type Page } from '../../shared/contracts/admin.contract'
-import { MailOutbox, OUTBOX_STATUSES, type OutboxStatus } from '../db/entities/mail-outbox.entity'
+import { OUTBOX_STATUSES, type OutboxRow } from '../../shared/contracts/mailbox.contract'
+import { MailOutbox } from '../db/entities/mail-outbox.entity'
 import { ConflictError, NotFoundError } from '../http/errors'
 
 export const outboxListQuerySchema = pageQuerySchema.omit({ search: true }).extend({
@@ -10,21 +11,6 @@ export const outboxListQuerySchema = pageQuerySchema.omit({ search: true }).exte
 })
 export type OutboxListQuery = z.infer<typeof outboxListQuerySchema>
 
-export interface OutboxRow {
-  id: string
-  kind: string
-  reference: string | null
-  to: string[]
-  cc: string[]
-  subject: string
-  status: OutboxStatus
-  attempts: number
-  nextAttemptAt: string
-  lastError: string | null
-  attachmentCount: number
-  createdAt: string
-  sentAt: string | null
-}
 
 export async function listOutbox(dataSource: DataSource, query: OutboxListQuery): Promise<Page<OutboxRow>> {
   const [rows, total] = await dataSource.getRepository(MailOutbox).findAndCount({

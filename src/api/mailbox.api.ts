@@ -1,62 +1,10 @@
 // The admin's mailbox (mail captured by the local fake SMTP server) and the mail outbox.
-// Wire types mirror server/mail/mailbox-client.ts and server/mail/outbox-admin.ts.
 import type { Page } from '@shared/contracts/admin.contract'
+import type { MailDetail, MailSummary, OutboxRow, OutboxStatus } from '@shared/contracts/mailbox.contract'
 import { http } from './http'
 
-export interface MailAddress {
-  name: string
-  address: string
-}
-
-export interface MailSummary {
-  id: string
-  receivedAt: string
-  size: number
-  envelope: { from: string | null; to: string[] }
-  subject: string | null
-  from: MailAddress | null
-  to: MailAddress[]
-  cc: MailAddress[]
-  date: string | null
-  attachmentCount: number
-}
-
-export interface MailAttachmentInfo {
-  index: number
-  filename: string
-  contentType: string
-  size: number
-  contentId: string | null
-  disposition: string | null
-}
-
-export interface MailDetail extends MailSummary {
-  messageId: string | null
-  text: string | null
-  /** The message's own HTML: show it only inside a sandboxed frame. */
-  html: string | null
-  headers: { name: string; value: string }[]
-  attachments: MailAttachmentInfo[]
-}
-
-export const OUTBOX_STATUSES = ['pending', 'sending', 'sent', 'failed'] as const
-export type OutboxStatus = (typeof OUTBOX_STATUSES)[number]
-
-export interface OutboxRow {
-  id: string
-  kind: string
-  reference: string | null
-  to: string[]
-  cc: string[]
-  subject: string
-  status: OutboxStatus
-  attempts: number
-  nextAttemptAt: string
-  lastError: string | null
-  attachmentCount: number
-  createdAt: string
-  sentAt: string | null
-}
+export { OUTBOX_STATUSES } from '@shared/contracts/mailbox.contract'
+export type { MailAddress, MailAttachmentInfo, MailDetail, MailSummary, OutboxRow, OutboxStatus } from '@shared/contracts/mailbox.contract'
 
 export async function listMailbox(): Promise<MailSummary[]> {
   return (await http.get<{ messages: MailSummary[] }>('/admin/mailbox')).data.messages

@@ -1,7 +1,7 @@
 import { Column, CreateDateColumn, Entity, Index, PrimaryGeneratedColumn } from 'typeorm'
+import { OUTBOX_STATUSES, type OutboxStatus } from '../../../shared/contracts/mailbox.contract'
 
-export const OUTBOX_STATUSES = ['pending', 'sending', 'sent', 'failed'] as const
-export type OutboxStatus = (typeof OUTBOX_STATUSES)[number]
+export { OUTBOX_STATUSES, type OutboxStatus }
 
 /**
  * A file to attach: either `path`, relative to the data directory (generated PDFs live there), or

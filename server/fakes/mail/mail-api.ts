@@ -1,45 +1,10 @@
 // Read-only JSON view of the fake's mailbox (plus clearing it), used by the admin's mailbox screen.
 import express, { type NextFunction, type Request, type Response } from 'express'
 import { simpleParser, type AddressObject, type ParsedMail } from 'mailparser'
+import type { MailAddress, MailAttachmentInfo, MailDetail, MailSummary } from '../../../shared/contracts/mailbox.contract'
 import { isMessageId, type MailStore, type StoredMessageMeta } from './mail-store'
 
-export interface MailAddress {
-  name: string
-  address: string
-}
-
-export interface MailSummary {
-  id: string
-  receivedAt: string
-  size: number
-  envelope: StoredMessageMeta['envelope']
-  subject: string | null
-  from: MailAddress | null
-  to: MailAddress[]
-  cc: MailAddress[]
-  /** The Date header as ISO 8601, or null when missing or unreadable. */
-  date: string | null
-  attachmentCount: number
-}
-
-export interface MailAttachmentInfo {
-  index: number
-  /** Already sanitised: no path parts, no control characters. */
-  filename: string
-  contentType: string
-  size: number
-  contentId: string | null
-  disposition: string | null
-}
-
-export interface MailDetail extends MailSummary {
-  messageId: string | null
-  text: string | null
-  /** The message's own HTML, unsanitised: render it only in a sandboxed frame. */
-  html: string | null
-  headers: { name: string; value: string }[]
-  attachments: MailAttachmentInfo[]
-}
+export type { MailAddress, MailAttachmentInfo, MailDetail, MailSummary }
 
 class HttpProblem extends Error {
   constructor(
