@@ -19,6 +19,7 @@ const schema = z.object({
   SESSION_SECRET: z.string().min(32, { error: 'must be at least 32 characters' }),
   COOKIE_SECURE: z.enum(['auto', 'true', 'false']).default('auto'),
   TRUST_PROXY: bool.default(false),
+  COMPRESS_RESPONSES: bool.default(true),
   // Worker threads for duty study runs (0: in the app's own thread); by default one per core, at most 4, none on one core.
   SELECTION_WORKERS: z.coerce.number().int().min(0).max(16).optional(),
   // Catalogues smaller than this run in the app's own thread: passing a study to workers costs more than it saves there.

@@ -41,6 +41,18 @@ type Row = { partNumber: string; tap: string; meetsDuty: boolean; rank: number; 
 const ours = (candidates: Row[]) => candidates.filter((candidate) => candidate.partNumber.startsWith(prefix))
 
 describe('POST /api/v1/studies/preview-run', () => {
+  it('sends the answer gzip-compressed to a client that accepts it, and plain to one that does not', async () => {
+    const plain = await preview({ input: blowerStudy() }).set('Accept-Encoding', 'identity')
+    expect(plain.status).toBe(200)
+    expect(plain.headers['content-encoding']).toBeUndefined()
+    const packed = await preview({ input: blowerStudy() }).set('Accept-Encoding', 'gzip')
+    expect(packed.status).toBe(200)
+    expect(packed.headers['content-encoding']).toBe('gzip')
+    // The same answer once unpacked (supertest inflates it), apart from the run's own time stamp.
+    const strip = (body: { ranAt: string; durationMs: number }) => ({ ...body, ranAt: '', durationMs: 0 })
+    expect(strip(packed.body)).toEqual(strip(plain.body))
+  })
+
   it('solves every matching candidate for an anonymous visitor and ranks those meeting the duty first', async () => {
     const response = await preview({ input: blowerStudy() })
     expect(response.status).toBe(200)
