@@ -41,6 +41,25 @@ type Row = { partNumber: string; tap: string; meetsDuty: boolean; rank: number; 
 const ours = (candidates: Row[]) => candidates.filter((candidate) => candidate.partNumber.startsWith(prefix))
 
 describe('POST /api/v1/studies/preview-run', () => {
+  it('answers the same through the worker pool as in the app’s own thread', async () => {
+    // The pool normally takes catalogues of 10,000 variants and more; here it takes every run.
+    // A failing pool falls back to the app's thread and logs why: nothing may be logged here.
+    const logged: unknown[] = []
+    const pooled = await startTestApp({ SELECTION_WORKERS: '2', SELECTION_POOL_MIN_VARIANTS: '0' }, (error) => logged.push(error))
+    try {
+      const other = await anonymousAgent(pooled)
+      const viaPool = await other.agent.post('/api/v1/studies/preview-run').set('X-CSRF-Token', other.csrf).send({ input: blowerStudy() })
+      const here = await preview({ input: blowerStudy() })
+      expect(viaPool.status, JSON.stringify(viaPool.body).slice(0, 300)).toBe(200)
+      expect(ours(viaPool.body.candidates).length).toBeGreaterThan(0)
+      const strip = (body: { ranAt: string; durationMs: number }) => ({ ...body, ranAt: '', durationMs: 0 })
+      expect(strip(viaPool.body)).toEqual(strip(here.body))
+      expect(logged).toEqual([])
+    } finally {
+      await pooled.close()
+    }
+  })
+
   it('sends the answer gzip-compressed to a client that accepts it, and plain to one that does not', async () => {
     const plain = await preview({ input: blowerStudy() }).set('Accept-Encoding', 'identity')
     expect(plain.status).toBe(200)

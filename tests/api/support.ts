@@ -35,11 +35,12 @@ export function testConfig(overrides: NodeJS.ProcessEnv = {}): Config {
   })
 }
 
-export async function startTestApp(overrides: NodeJS.ProcessEnv = {}): Promise<TestContext> {
+/** `log` receives what the app logs as an error (default: printed); a test may collect it. */
+export async function startTestApp(overrides: NodeJS.ProcessEnv = {}, log: (error: unknown) => void = (error) => console.error('[app error]', error)): Promise<TestContext> {
   const config = testConfig(overrides)
   const dataSource = createDataSource(config)
   await dataSource.initialize()
-  const handle = createApp({ config, dataSource, log: (error) => console.error('[app error]', error) })
+  const handle = createApp({ config, dataSource, log })
   return {
     config,
     dataSource,
