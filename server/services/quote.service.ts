@@ -18,6 +18,7 @@ import type {
   QuoteSummary,
   RevisionLine,
 } from '../../shared/contracts/quote.contract'
+import { DEFAULT_DRAFT_TERMS } from '../../shared/contracts/quote.contract'
 import {
   addDays,
   formatQuoteNumber,
@@ -127,7 +128,7 @@ export function buildDocument(args: {
 
 /**
  * A buyer's request as a quote in state 'requested' with its draft started from the request (the
- * account's sales engineer and currency, FCA at the works, 30 days, 30 % deposit), audited.
+ * account's sales engineer and currency, DEFAULT_DRAFT_TERMS), audited.
  * QuoteService.request() runs it after its checks; the demo seed runs it for the demo request.
  */
 export async function recordQuoteRequest(
@@ -149,11 +150,7 @@ export async function recordQuoteRequest(
       draft: {
         lines: [{ partNumber: request.partNumber, tap: request.tap, quantity: request.quantityPerYear, options: [], extraDiscountBp: 0, studyId: request.studyId }],
         nre: [],
-        incoterm: 'FCA',
-        incotermPlace: 'Ashcombe works, Dunmore OH',
-        validityDays: 30,
-        paymentTerms: 'Deposit with order, balance 30 days net from shipment',
-        depositBp: 3000,
+        ...DEFAULT_DRAFT_TERMS,
         notes: request.note ? `Buyer's note: ${request.note}` : '',
       },
       currentRevision: null,

@@ -43,6 +43,15 @@ export const draftLineSchema = z.strictObject({
   studyId: z.uuid().optional(),
 })
 
+/** The terms a new draft starts with, whether a buyer's request or a sales engineer's own quote. */
+export const DEFAULT_DRAFT_TERMS = {
+  incoterm: 'FCA',
+  incotermPlace: 'Ashcombe works, Dunmore OH',
+  validityDays: 30,
+  paymentTerms: 'Deposit with order, balance 30 days net from shipment',
+  depositBp: 3000,
+} as const
+
 export const quoteDraftSchema = z.strictObject({
   lines: z.array(draftLineSchema).min(1, { error: 'a quote needs at least one line' }).max(50),
   nre: z
@@ -51,9 +60,9 @@ export const quoteDraftSchema = z.strictObject({
     .default([]),
   incoterm: z.enum(INCOTERMS_2020, { error: 'choose an Incoterms 2020 rule' }),
   incotermPlace: z.string().trim().min(2, { error: 'name the place for the Incoterms rule' }).max(120),
-  validityDays: z.number().int().min(1).max(365).default(30),
-  paymentTerms: z.string().trim().min(2).max(200).default('Deposit with order, balance 30 days net from shipment'),
-  depositBp: z.number().int().min(0).max(10_000).default(3000),
+  validityDays: z.number().int().min(1).max(365).default(DEFAULT_DRAFT_TERMS.validityDays),
+  paymentTerms: z.string().trim().min(2).max(200).default(DEFAULT_DRAFT_TERMS.paymentTerms),
+  depositBp: z.number().int().min(0).max(10_000).default(DEFAULT_DRAFT_TERMS.depositBp),
   notes: z.string().trim().max(4000).default(''),
 })
 export type QuoteDraft = z.infer<typeof quoteDraftSchema>
