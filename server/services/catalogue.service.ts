@@ -9,7 +9,7 @@ import type {
   VariantListQuery,
   VariantRow,
 } from '../../shared/contracts/catalogue.contract'
-import { prepareEntry, type CatalogueEntry, type CatalogueSource } from '../../shared/selection/run-selection'
+import { catalogueSource, prepareEntry, type CatalogueEntry, type CatalogueSource } from '../../shared/selection/run-selection'
 import { CatalogueRevision, Datasheet, DemoFan, MotorPerformance, MotorVariant } from '../db/entities'
 import { NotFoundError } from '../http/errors'
 
@@ -275,25 +275,7 @@ export class CatalogueService {
     const rows = await this.dataSource.getRepository(MotorPerformance).find({ where: { current: true } })
     const byVariant = new Map<string, CatalogueSource>()
     const sources: CatalogueSource[] = variants.map((variant) => {
-      const source: CatalogueSource = {
-        variantId: variant.id,
-        partNumber: variant.partNumber,
-        name: variant.name,
-        type: variant.type,
-        poles: variant.poles,
-        ratedOutputW: variant.ratedOutputW,
-        frameDiameterMm: variant.frameDiameterMm,
-        mounting: variant.mounting,
-        enclosure: variant.enclosure,
-        rotation: variant.rotation,
-        rotationViewedFrom: variant.rotationViewedFrom,
-        otherRotationAvailable: variant.otherRotationAvailable,
-        insulationClass: insulationCode(variant.insulationClass),
-        protection: variant.protection,
-        maxAmbientC: variant.maxAmbientC,
-        lifecycle: variant.lifecycle,
-        performance: [],
-      }
+      const source = catalogueSource(variant.id, variant, variant.type, insulationCode(variant.insulationClass))
       byVariant.set(variant.id, source)
       return source
     })

@@ -85,6 +85,35 @@ export type SourcePerformance = Pick<CataloguePerformance, 'id' | 'tap' | 'volts
 /** A catalogue entry as stored: plain data (it crosses to worker threads), prepared by prepareEntry(). */
 export type CatalogueSource = Omit<CatalogueEntry, 'performance'> & { performance: SourcePerformance[] }
 
+/** What a catalogue source takes from a variant record as it is (a database row or the demo generator's). */
+export type SourceVariant = Pick<
+  CatalogueSource,
+  'partNumber' | 'name' | 'poles' | 'ratedOutputW' | 'frameDiameterMm' | 'mounting' | 'enclosure' | 'rotation' | 'rotationViewedFrom' | 'otherRotationAvailable' | 'protection' | 'maxAmbientC' | 'lifecycle'
+>
+
+/** A catalogue source with no performance rows yet, from a variant record. */
+export function catalogueSource(variantId: string, variant: SourceVariant, type: MotorType, insulationClass: InsulationClassCode): CatalogueSource {
+  return {
+    variantId,
+    partNumber: variant.partNumber,
+    name: variant.name,
+    type,
+    poles: variant.poles,
+    ratedOutputW: variant.ratedOutputW,
+    frameDiameterMm: variant.frameDiameterMm,
+    mounting: variant.mounting,
+    enclosure: variant.enclosure,
+    rotation: variant.rotation,
+    rotationViewedFrom: variant.rotationViewedFrom,
+    otherRotationAvailable: variant.otherRotationAvailable,
+    insulationClass,
+    protection: variant.protection,
+    maxAmbientC: variant.maxAmbientC,
+    lifecycle: variant.lifecycle,
+    performance: [],
+  }
+}
+
 /**
  * The solver-ready entry. A row that the core refuses is left out of selection rather than
  * breaking every run, and reported to `refused`.
