@@ -1,56 +1,31 @@
 import { randomUUID } from 'node:crypto'
 import { expect, test, type Page } from '@playwright/test'
-import { CATALOGUE_COLUMNS } from '../../server/imports/catalogue-columns'
+import { csvOf, variantRow } from '../api/catalogue-csv-fixtures'
 import { shot, signIn } from './support'
 
 const family = `E2E${randomUUID().slice(0, 5).toUpperCase()}`
 const partA = `${family}-4-127-60-07`
 const partB = `${family}-4-127-60-09`
 
+/** A row of this scenario: a 127 V 60 Hz bath-fan family, on the import tests' shared row builder. */
 function row(partNumber: string, cells: Record<string, string> = {}): Record<string, string> {
-  return {
-    family_code: family,
+  return variantRow(family, partNumber, {
     family_name: `Ashcombe ${family} shaded-pole`,
-    family_type: 'shaded-pole',
     family_description: 'Open-frame shaded-pole motors for 127 V bath fans',
-    family_lifecycle: 'active',
-    part_number: partNumber,
     name: `${family} 4-pole 127 V 60 Hz`,
-    poles: '4',
     rated_voltage_v: '127',
-    rated_frequency_hz: '60',
-    dual_frequency: 'no',
     rated_output_w: '7',
-    rated_speed_rpm: '1550',
     rated_current_a: '0.35',
     rated_input_w: '33',
     locked_rotor_torque_nm: '0.06',
     breakdown_torque_nm: '0.08',
-    frame_diameter_mm: '84',
-    stack_length_mm: '20',
-    shaft_diameter_mm: '6',
-    shaft_length_mm: '30',
-    mounting: 'through-bolt',
-    rotation: 'ccw',
-    rotation_viewed_from: 'shaft-end',
-    other_rotation_available: 'no',
-    enclosure: 'open',
-    insulation_class: 'B',
-    protection: 'impedance',
-    max_ambient_c: '40',
-    capacitor_uf: '',
-    capacitor_vac: '',
     copper_mass_g: '90',
     weight_g: '600',
-    moq: '500',
-    lead_time_days: '42',
-    lifecycle: 'active',
-    speed_taps: 'high',
     ...cells,
-  }
+  })
 }
 
-const csv = (rows: Record<string, string>[]) => [CATALOGUE_COLUMNS.join(','), ...rows.map((r) => CATALOGUE_COLUMNS.map((c) => r[c] ?? '').join(','))].join('\n') + '\n'
+const csv = csvOf
 
 /** An invented shaded-pole curve, 4 poles at 60 Hz (n_s = 1800 r/min), torque in N m. */
 const CURVE = [
