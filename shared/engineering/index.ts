@@ -9,7 +9,7 @@ export { Pchip } from './pchip'
 export { validateMotor, prepareMotor, isPreparedMotor, evaluateMotor, type PreparedMotor, type BoundMotor } from './motor'
 export { FIXED_LOSS_KNEE } from './machine'
 export { validateLoad, prepareLoad, isPreparedLoad, evaluateLoad, type PreparedLoad } from './load'
-export { solveOperatingPoint, validateSolveOptions } from './solver'
+export { solveOperatingPoint, solveBound, tabulateScan, validateSolveOptions } from './solver'
 export {
   FLOW_FACTORS,
   PRESSURE_FACTORS,

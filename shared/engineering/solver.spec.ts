@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { evaluateLoad, evaluateMotor, prepareLoad, prepareMotor, solveOperatingPoint, validateLoad } from './index'
+import { evaluateLoad, evaluateMotor, prepareLoad, prepareMotor, solveBound, solveOperatingPoint, tabulateScan, validateLoad } from './index'
 import { axialFan, blowerFan, pscCircuit, shadedPoleCurve } from './examples'
 import { errorField } from './spec-helpers'
 import type { CircuitMotor, FanLoad, Load, MotorModel, OperatingPoint, Supply, TorqueLoad } from './types'
@@ -126,6 +126,33 @@ describe('operating point', () => {
           expect({ ...second, evaluations: 0 }).toEqual({ ...first, evaluations: 0 })
           // Without load jumps the table is read on the third solve: fewer fresh motor evaluations.
           if (load.jumpRpms.length === 0 && load.maxRpm >= motor.bind(supply).syncRpm) expect(third.evaluations).toBeLessThan(first.evaluations)
+        },
+      ),
+      { numRuns: 120 },
+    )
+  })
+
+  it('gives the same point for a motor bound and tabulated up front (solveBound) as for a fresh solve', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0, max: 50000, noNaN: true }),
+        fc.double({ min: 0, max: 60, noNaN: true }),
+        fc.double({ min: 180, max: 250, noNaN: true }),
+        fc.boolean(),
+        (k, offsetPa, volts, curve) => {
+          const source = curve ? shadedPoleCurve : pscCircuit
+          const load = prepareLoad({ ...blowerFan, system: { k, offsetPa } })
+          const supply = { volts, hz: 50 }
+          let fresh: OperatingPoint
+          try {
+            fresh = solveOperatingPoint(prepareMotor(source), load, supply)
+          } catch {
+            return // off the end of the fan curve: refused alike every time
+          }
+          const bound = prepareMotor(source).bind(supply)
+          tabulateScan(bound)
+          expect(bound.scanTable).toBeDefined()
+          expect({ ...solveBound(bound, load), evaluations: 0 }).toEqual({ ...fresh, evaluations: 0 })
         },
       ),
       { numRuns: 120 },

@@ -70,10 +70,19 @@ export function solveOperatingPoint(
   const sup = validateSupply(supply)
   const opts = options === undefined ? undefined : validateSolveOptions(options)
   const bm = pm.bind(sup)
-  const ns = bm.syncRpm
   const n0 = opts?.startRpm ?? 0
-  if (n0 >= ns) throw new EngineeringInputError('options.startRpm', `must be below synchronous speed ${ns} r/min`)
-  const tol = opts?.tolRpm ?? 1e-6 * ns
+  if (n0 >= bm.syncRpm) throw new EngineeringInputError('options.startRpm', `must be below synchronous speed ${bm.syncRpm} r/min`)
+  return solveBound(bm, pl, n0, opts?.tolRpm)
+}
+
+/**
+ * solveOperatingPoint() for a motor already bound to its supply and a prepared load, from `n0`
+ * (below synchronous speed): the hot path of a selection over thousands of motors, which binds
+ * each motor to the study's supplies once and reads the bound motors straight from its plan.
+ */
+export function solveBound(bm: BoundMotor, pl: PreparedLoad, n0 = 0, tolRpm?: number): OperatingPoint {
+  const ns = bm.syncRpm
+  const tol = tolRpm ?? 1e-6 * ns
   const net = new NetTorque(bm, pl)
 
   // From standstill with a load that has no torque jumps and no end below synchronous speed the
@@ -136,13 +145,21 @@ function scanTableOf(bm: BoundMotor, net: NetTorque): ScanTable | undefined {
   return buildScanTable(bm, net)
 }
 
+/**
+ * Tabulates a bound motor's scan from standstill now, rather than on its second solve: a
+ * selection plan does it for every motor it binds, so each motor's table lies next to it in memory.
+ */
+export function tabulateScan(bm: BoundMotor): void {
+  bm.scanTable ??= buildScanTable(bm)
+}
+
 /** The motor's scan speeds from standstill on its supply and its shaft torque at each (evaluations counted). */
-function buildScanTable(bm: BoundMotor, net: NetTorque): ScanTable {
+function buildScanTable(bm: BoundMotor, net?: NetTorque): ScanTable {
   const speeds = bm.dipRpms.length === 0 ? plainGrid(bm.syncRpm) : scanGrid(bm.syncRpm, 0, bm.dipRpms, Infinity, [])
   const torques: number[] = []
   for (let i = 0; i < speeds.length; i++) torques.push(bm.torque(speeds[i] ?? 0))
   const table: ScanTable = { speeds, torques, startTorque: bm.torque(0) }
-  net.evaluations += speeds.length + 1
+  if (net) net.evaluations += speeds.length + 1
   bm.scanTable = table
   return table
 }

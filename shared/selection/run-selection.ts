@@ -9,7 +9,8 @@ import {
   breakdownTorque,
   prepareLoad,
   syncRpm,
-  solveOperatingPoint,
+  solveBound,
+  tabulateScan,
   hotMotor,
   type MotorModel,
   type OperatingPoint,
@@ -279,6 +280,47 @@ interface SupplyPlan {
   ceilingNm: Float64Array
   /** The row's motor bound to the supply (read straight from here, not through the motor's cache of bindings). */
   bound: BoundMotor[]
+  /** The same rows bound to other supplies (a study's low line), by rowsOnSupply(). */
+  elsewhere: Map<string, RowsOnSupply>
+}
+
+/** A plan's rows bound to another supply: each row's own motor and, for circuit models, its hot winding. */
+interface RowsOnSupply {
+  bound: BoundMotor[]
+  hot: Array<BoundMotor | undefined>
+}
+
+/** Other supplies whose bindings a plan keeps (low line at the tolerances asked for lately). */
+const OTHER_SUPPLIES = 4
+
+const supplyKey = (supply: Supply): string => `${supply.volts}|${supply.hz}`
+
+/** A motor bound to a supply with its scan from standstill tabulated, as a plan keeps it. */
+function planned(motor: PreparedMotor, supply: Supply): BoundMotor {
+  const bound = motor.bind(supply)
+  tabulateScan(bound)
+  return bound
+}
+
+/**
+ * The plan's rows on `supply`, built once per plan and supply: the worst-case solves read their
+ * motors from here in the order the ranking asks for them, without a lookup per solve.
+ */
+function rowsOnSupply(plan: SupplyPlan, supply: Supply): RowsOnSupply {
+  const key = supplyKey(supply)
+  const known = plan.elsewhere.get(key)
+  if (known) return known
+  if (plan.elsewhere.size >= OTHER_SUPPLIES) {
+    const oldest = plan.elsewhere.keys().next().value
+    if (oldest !== undefined) plan.elsewhere.delete(oldest)
+  }
+  const rows: RowsOnSupply = { bound: [], hot: [] }
+  for (const row of plan.rows) {
+    rows.bound.push(planned(row.prepared, supply))
+    rows.hot.push(row.hotPrepared ? planned(row.hotPrepared, supply) : undefined)
+  }
+  plan.elsewhere.set(key, rows)
+  return rows
 }
 
 const supplyPlans = new WeakMap<readonly CatalogueEntry[], Map<string, SupplyPlan>>()
@@ -293,7 +335,7 @@ function planOnSupply(catalogue: readonly CatalogueEntry[], supply: Supply): Sup
     bySupply = new Map()
     supplyPlans.set(catalogue, bySupply)
   }
-  const key = `${supply.volts}|${supply.hz}`
+  const key = supplyKey(supply)
   const known = bySupply.get(key)
   if (known) return known
   if (bySupply.size >= PLANNED_SUPPLIES) {
@@ -310,13 +352,13 @@ function planOnSupply(catalogue: readonly CatalogueEntry[], supply: Supply): Sup
     for (const row of pickRows(entry, supply)) {
       const kv = supply.volts / row.volts
       rows.push(row)
-      bound.push(row.prepared.bind(supply))
+      bound.push(planned(row.prepared, supply))
       sync.push(syncRpm(entry.poles, supply.hz))
       ceiling.push(row.torqueCeilingNm * kv * kv)
     }
   }
   first[catalogue.length] = rows.length
-  const plan: SupplyPlan = { first, rows, syncRpm: Float64Array.from(sync), ceilingNm: Float64Array.from(ceiling), bound }
+  const plan: SupplyPlan = { first, rows, syncRpm: Float64Array.from(sync), ceilingNm: Float64Array.from(ceiling), bound, elsewhere: new Map() }
   bySupply.set(key, plan)
   return plan
 }
@@ -378,6 +420,8 @@ function sampleLoad(load: PreparedLoad, maxRpm: number, points = 61): CurveSampl
 interface Scored {
   entry: CatalogueEntry
   row: CataloguePerformance
+  /** The row's index in the plan (its motors on the low-line supply are at the same index there). */
+  index: number
   nominal: OperatingPoint
   /** Solved when the nominal point meets the duty (the tier depends on it) or when returned. */
   lowLine?: OperatingPoint
@@ -415,29 +459,31 @@ function nominalMeets(nominal: OperatingPoint, requiredFlow: number): boolean {
 /**
  * Low line, and the hot winding at low line only where it could still change the verdict (a cold
  * motor already short stays short hot). With a shortfall test, a motor proven short at low line
- * (or hot) by shortAtRequired() is settled without that solve: the solve could only confirm it.
+ * (or hot) by shortAtRequired()'s test is settled without that solve: the solve could only confirm
+ * it. The motors come bound to the low-line supply from the plan (rowsOnSupply).
  */
-function settleWorstCase(item: Scored, load: PreparedLoad, lowSupply: Supply, requiredFlow: number, shortfall: ShortfallTest | null): void {
-  if (shortfall && shortAtRequired(shortfall, item.row.prepared, lowSupply)) {
+function settleWorstCase(item: Scored, load: PreparedLoad, low: RowsOnSupply, requiredFlow: number, shortfall: ShortfallTest | null): void {
+  const motor = low.bound[item.index] as BoundMotor
+  if (shortfall && motor.torque(shortfall.nRequired) < shortfall.torqueAtRequired) {
     item.worstShort = true
     return
   }
-  const lowLine = solveOperatingPoint(item.row.prepared, load, lowSupply)
+  const lowLine = solveBound(motor, load)
   item.lowLine = lowLine
-  const hot = item.row.hotPrepared
+  const hot = low.hot[item.index]
   if (!hot || !lowLineGood(lowLine, requiredFlow)) return
-  if (shortfall && shortAtRequired(shortfall, hot, lowSupply)) {
+  if (shortfall && hot.torque(shortfall.nRequired) < shortfall.torqueAtRequired) {
     item.worstShort = true
     return
   }
-  item.hot = solveOperatingPoint(hot, load, lowSupply)
+  item.hot = solveBound(hot, load)
 }
 
 /** The worst-case points a returned candidate shows, whatever settled its tier. */
-function completeWorstCase(item: Scored, load: PreparedLoad, lowSupply: Supply, requiredFlow: number): void {
-  item.lowLine ??= solveOperatingPoint(item.row.prepared, load, lowSupply)
-  const hot = item.row.hotPrepared
-  if (hot && !item.hot && lowLineGood(item.lowLine, requiredFlow)) item.hot = solveOperatingPoint(hot, load, lowSupply)
+function completeWorstCase(item: Scored, load: PreparedLoad, low: RowsOnSupply, requiredFlow: number): void {
+  item.lowLine ??= solveBound(low.bound[item.index] as BoundMotor, load)
+  const hot = low.hot[item.index]
+  if (hot && !item.hot && lowLineGood(item.lowLine, requiredFlow)) item.hot = solveBound(hot, load)
 }
 
 function lowLineGood(lowLine: OperatingPoint, requiredFlow: number): boolean {
@@ -467,6 +513,7 @@ interface BuildContext {
   input: StudyInput
   supply: Supply
   lowSupply: Supply
+  low: RowsOnSupply
   load: PreparedLoad
   requiredFlow: number
   minClass: InsulationClassCode | undefined
@@ -475,7 +522,7 @@ interface BuildContext {
 /** The full candidate (worst-case points, warnings, energy) for one that is returned. */
 function buildCandidate(item: Scored, rank: number, context: BuildContext): Candidate {
   const { input, supply, lowSupply, requiredFlow, minClass } = context
-  completeWorstCase(item, context.load, lowSupply, requiredFlow)
+  completeWorstCase(item, context.load, context.low, requiredFlow)
   const { entry, row, nominal } = item
   const lowLine = item.lowLine as OperatingPoint
   const hotPoint = item.hot
@@ -630,9 +677,11 @@ export function rankCatalogue(catalogue: readonly CatalogueEntry[], frame: Study
   let considered = 0
   /** Nominal candidates that meet the duty there; their worst case decides tier 0 or 1. */
   const pending: Scored[] = []
-  const score = (entry: CatalogueEntry, row: CataloguePerformance): void => {
-    const nominal = solveOperatingPoint(row.prepared, load, supply)
-    const item: Scored = { entry, row, nominal, tier: 4, score: 0 }
+  const plan = planOnSupply(catalogue, supply)
+  const low = rowsOnSupply(plan, lowSupply)
+  const score = (entry: CatalogueEntry, index: number): void => {
+    const nominal = solveBound(plan.bound[index] as BoundMotor, load)
+    const item: Scored = { entry, row: plan.rows[index] as CataloguePerformance, index, nominal, tier: 4, score: 0 }
     if (nominalMeets(nominal, requiredFlow)) {
       // The score it has if the worst case meets the duty too: the most it can have.
       item.score = scoreOf(0, nominal, input.duty)
@@ -644,7 +693,6 @@ export function rankCatalogue(catalogue: readonly CatalogueEntry[], frame: Study
     scored.push(item)
   }
 
-  const plan = planOnSupply(catalogue, supply)
   /** Entry of each deferred row (parallel to `deferred`). */
   const deferredEntry: CatalogueEntry[] = []
   // Index loops on the hot paths: an entries() iterator allocates a pair per step.
@@ -668,17 +716,16 @@ export function rankCatalogue(catalogue: readonly CatalogueEntry[], frame: Study
       // line gives. Returned candidates get the rest in buildCandidate(). A candidate proven
       // short without solving waits: it ranks below every one that meets the duty at nominal.
       // The same tests as provablyShort() and shortAtRequired(), read from the plan's arrays.
-      const row = plan.rows[r] as CataloguePerformance
       if (shortfall && ((plan.syncRpm[r] ?? 0) < shortfall.nRequired || (plan.ceilingNm[r] ?? 0) < shortfall.torqueAtRequired || (plan.bound[r] as BoundMotor).torque(shortfall.nRequired) < shortfall.torqueAtRequired)) {
         deferred.push(r)
         deferredEntry.push(entry)
         continue
       }
-      score(entry, row)
+      score(entry, r)
     }
   }
   const skipped = pending.length < limit ? 0 : deferred.length
-  if (skipped === 0) for (let i = 0; i < deferred.length; i += 1) score(deferredEntry[i] as CatalogueEntry, plan.rows[deferred[i] ?? 0] as CataloguePerformance)
+  if (skipped === 0) for (let i = 0; i < deferred.length; i += 1) score(deferredEntry[i] as CatalogueEntry, deferred[i] ?? 0)
 
   // The worst case for those that meet the duty at nominal, the best possible score first. Once
   // `limit` of them meet it at the worst case too, one whose best possible score is below the
@@ -693,7 +740,7 @@ export function rankCatalogue(catalogue: readonly CatalogueEntry[], frame: Study
       unresolved = pending.length - index
       break
     }
-    settleWorstCase(item, load, lowSupply, requiredFlow, shortfall)
+    settleWorstCase(item, load, low, requiredFlow, shortfall)
     item.tier = tierOf(item, requiredFlow)
     item.score = scoreOf(item.tier, item.nominal, input.duty)
     scored.push(item)
@@ -712,7 +759,7 @@ export function rankCatalogue(catalogue: readonly CatalogueEntry[], frame: Study
   if (skipped > 0) for (const entry of deferredEntry) fastestSync = Math.max(fastestSync, syncRpm(entry.poles, supply.hz))
   if (unresolved > 0) for (const item of pending.slice(pending.length - unresolved)) fastestSync = Math.max(fastestSync, syncRpm(item.entry.poles, supply.hz))
 
-  const context: BuildContext = { input, supply, lowSupply, load, requiredFlow, minClass: input.constraints.minInsulationClass }
+  const context: BuildContext = { input, supply, lowSupply, low, load, requiredFlow, minClass: input.constraints.minInsulationClass }
   return {
     share: { keys: returned.map(keyOf), considered, candidateTotal: scored.length + skipped + unresolved, excluded: [...excluded.entries()], fastestSync },
     build(picks) {
