@@ -132,7 +132,8 @@ export async function benchSelection(stack: BenchStack, quick: boolean): Promise
     for (const size of sizes) {
       const insertMs = size > baseIds.length ? await growCatalogue(stack.dataSource, baseIds, size, rounds) : 0
       const variants = await variantCount(stack.dataSource)
-      const runs = quick ? (size >= 20_000 ? 8 : 15) : size >= 20_000 ? 20 : 40
+      // Enough runs that the p95 is not the second-worst of a handful: 100 (40 at 20,000).
+      const runs = quick ? (size >= 20_000 ? 8 : 15) : size >= 20_000 ? 40 : 100
       // Through HTTP first: the in-process timing loads the catalogue into this (the client's)
       // process too, and its collector's pauses would then land in the client's timings.
       const http = await timeRuns(viaHttp, runs)
@@ -182,9 +183,14 @@ export async function benchSelection(stack: BenchStack, quick: boolean): Promise
   if (demo) check(`selection: demo catalogue (${demo.variants}) HTTP p95`, `${demo.http.p95Ms} ms (median ${demo.http.medianMs})`, 'informational', undefined)
   if (at5k) check('selection: 5,000 variants HTTP p95', `${at5k.http.p95Ms} ms (server ${at5k.server.p95Ms})`, '<= 50 ms', at5k.http.p95Ms <= 50)
   if (at20k) check('selection: 20,000 variants HTTP p95', `${at20k.http.p95Ms} ms (server ${at20k.server.p95Ms})`, 'informational', undefined)
-  // Linear: the fit explains the medians, and the largest size costs no more per variant than 5,000 (+25 %).
+  // Growing linearly, not faster: a fixed part plus a part per variant, so the cost per 1,000
+  // variants falls or stays level as the catalogue grows; at 20,000 it may not exceed that at
+  // 5,000 by more than 25 %. The fit's r2 is reported, not judged: once the fixed part (the 500
+  // returned candidates, built and serialised) dominates, the medians of 1,000 and 5,000 are
+  // nearly equal and the VM's noise alone sets how straight the line looks.
   const per5k = perThousand.find((p) => p.variants === 5000)
   const per20k = perThousand.find((p) => p.variants === 20_000)
-  const linear = httpFit.r2 >= 0.95 && per5k !== undefined && per20k !== undefined && per20k.httpMsPer1000 <= per5k.httpMsPer1000 * 1.25
-  check('selection: cost per 1,000 variants (HTTP)', `${round(httpFit.slope)} ms, r2 ${round(httpFit.r2, 3)}`, 'linear (r2 >= 0.95)', linear)
+  const linear = per5k !== undefined && per20k !== undefined && per20k.httpMsPer1000 <= per5k.httpMsPer1000 * 1.25
+  const perSize = perThousand.map((p) => `${p.httpMsPer1000}`).join(' / ')
+  check('selection: HTTP ms per 1,000 (1k / 5k / 20k)', `${perSize}`, 'linear: not rising (+25 %)', linear)
 }
