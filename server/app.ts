@@ -9,6 +9,7 @@ import type { DataSource } from 'typeorm'
 import type { Config } from './config'
 import { createPassport } from './auth/passport'
 import { csrfGuard } from './auth/csrf'
+import { sessionLayer } from './auth/session-layer'
 import { TypeormSessionStore } from './auth/session-store'
 import type { ApiRouter, RouteEntry } from './http/api-router'
 import { apiNotFound, errorHandler } from './http/error-handler'
@@ -69,6 +70,8 @@ export interface AppHandle {
 export const SESSION_COOKIE = 'spinwright.sid'
 // Routes that prove themselves another way (signed payment webhooks) skip the CSRF check.
 const CSRF_EXEMPT = new Set<string>(['/payments/webhook'])
+/** Reads that start a session when they come without one (the CSRF token lives in it). */
+const SESSION_STARTERS = new Set<string>(['/auth/csrf'])
 
 export function createApp({ config, dataSource, clientDir, log = console.error, today, mailbox = new MailboxClient(config.MAILBOX_URL) }: AppDeps): AppHandle {
   const app = express()
@@ -131,23 +134,21 @@ export function createApp({ config, dataSource, clientDir, log = console.error, 
   app.post(WEBHOOK_PATH, express.raw({ type: 'application/json', limit: '256kb' }), paymentWebhookHandler(payments.webhooks))
   const api = express.Router()
   api.use(express.json({ limit: '1mb' }))
-  api.use(
-    session({
-      name: SESSION_COOKIE,
-      secret: config.SESSION_SECRET,
-      store: sessionStore,
-      resave: false,
-      saveUninitialized: false,
-      rolling: true,
-      cookie: {
-        httpOnly: true,
-        sameSite: 'lax',
-        secure: config.COOKIE_SECURE === 'auto' ? 'auto' : config.COOKIE_SECURE === 'true',
-        maxAge: 8 * 60 * 60 * 1000,
-      },
-    }),
-  )
-  api.use(passport.session())
+  const sessionMiddleware = session({
+    name: SESSION_COOKIE,
+    secret: config.SESSION_SECRET,
+    store: sessionStore,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: {
+      httpOnly: true,
+      sameSite: 'lax',
+      secure: config.COOKIE_SECURE === 'auto' ? 'auto' : config.COOKIE_SECURE === 'true',
+      maxAge: 8 * 60 * 60 * 1000,
+    },
+  })
+  api.use(sessionLayer(SESSION_COOKIE, (requestPath) => SESSION_STARTERS.has(requestPath), [sessionMiddleware, passport.session()]))
   api.use(csrfGuard((requestPath) => CSRF_EXEMPT.has(requestPath)))
 
   const routers: ApiRouter[] = [

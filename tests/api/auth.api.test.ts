@@ -180,6 +180,39 @@ describe('role checks on the server', () => {
   })
 })
 
+describe('reads without a session cookie', () => {
+  it('are answered without minting a session: no cookie set, nothing stored, signed-in routes still 401', async () => {
+    const sessions = ctx.dataSource.getRepository(SessionRecord)
+    const before = await sessions.count()
+    const list = await request(ctx.handle.app).get('/api/v1/catalogue/variants?page=1&pageSize=5')
+    expect(list.status).toBe(200)
+    expect(list.headers['set-cookie']).toBeUndefined()
+    const health = await request(ctx.handle.app).get('/api/health')
+    expect(health.headers['set-cookie']).toBeUndefined()
+    expect((await request(ctx.handle.app).get('/api/auth/me')).status).toBe(401)
+    expect((await request(ctx.handle.app).get('/api/admin/users')).status).toBe(401)
+    expect(await sessions.count()).toBe(before)
+  })
+
+  it('still start a session where one is needed: GET /api/auth/csrf sets the cookie and stores the token', async () => {
+    const response = await request(ctx.handle.app).get('/api/auth/csrf')
+    expect(response.status).toBe(200)
+    const sid = sessionIdFrom(response.headers['set-cookie'])
+    expect(sid).toBeTruthy()
+    const row = await ctx.dataSource.getRepository(SessionRecord).findOneBy({ id: sid ?? '' })
+    expect(row?.data).toContain(response.body.token)
+  })
+
+  it('refuse a write without a cookie as before (CSRF), and read a signed-in user from the cookie', async () => {
+    const refused = await request(ctx.handle.app).post('/api/auth/sign-out').send({})
+    expect(refused.status).toBe(403)
+    expect(refused.body.error.code).toBe('csrf_failed')
+    const user = await createUser(ctx.dataSource, 'buyer')
+    const { agent } = await signInAs(ctx, user)
+    expect((await agent.get('/api/auth/me')).body.email).toBe(user.email)
+  })
+})
+
 describe('unknown API routes', () => {
   it('answer 404 JSON in the common error shape', async () => {
     const response = await request(ctx.handle.app).get('/api/no-such-thing')
