@@ -25,6 +25,12 @@ export interface BoundMotor {
   evaluate(rpm: number): MotorEvaluation
   /** Speeds (at this supply) where the torque curve may have a local minimum: the scan visits them. */
   readonly dipRpms: readonly number[]
+  /**
+   * Measured curves: every data point's speed at this supply. PCHIP is monotone between knots, so
+   * the torque's maxima are among these and the ends of the speed range (breakdownTorque()).
+   * Absent for circuit models.
+   */
+  readonly knotRpms?: readonly number[]
   /** The solver's scan from standstill on this supply, filled when it is solved again (solver.ts). */
   scanTable?: ScanTable
   solvedOnce: boolean
@@ -200,6 +206,7 @@ class BoundCurveMotor implements BoundMotor {
   solvedOnce = false
   readonly syncRpm: number
   readonly dipRpms: readonly number[]
+  readonly knotRpms: readonly number[]
   private readonly toRated: number
   private readonly kv: number
   private readonly kv2: number
@@ -216,6 +223,7 @@ class BoundCurveMotor implements BoundMotor {
     this.volts = supply.volts
     const minima = m.minima
     this.dipRpms = minima.length === 0 ? minima : minima.map((n) => n / this.toRated)
+    this.knotRpms = m.source.points.map((point) => point.rpm / this.toRated)
   }
 
   torque(rpm: number): number {

@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest'
+import fc from 'fast-check'
 import {
   airPowerW, breakdownMargin, breakdownTorque, dutyFigures, efficiencyWarnings, energyCost, insulationClass,
-  insulationMarginK, shadedPoleRotation, solveOperatingPoint, systemEfficiency, temperatureRiseByResistance,
+  insulationMarginK, prepareMotor, shadedPoleRotation, solveOperatingPoint, systemEfficiency, temperatureRiseByResistance,
+  type MotorModel,
 } from './index'
 import { axialFan, blowerFan, pscCircuit, shadedPoleCurve } from './examples'
 import { errorField } from './spec-helpers'
@@ -28,6 +30,22 @@ describe('breakdown torque and margins', () => {
     const b = breakdownTorque(shadedPoleCurve, mains)
     expect(b.rpm).toBeCloseTo(1150, 3)
     expect(b.torqueNm).toBeCloseTo(0.08, 9)
+  })
+
+  it('takes a measured curve\'s peak on its knots: no torque sampled densely in between is higher (property)', () => {
+    fc.assert(
+      fc.property(fc.array(fc.double({ min: 0.01, max: 0.2, noNaN: true }), { minLength: 4, maxLength: 12 }), fc.double({ min: 180, max: 250, noNaN: true }), (torques, volts) => {
+        const top = 1450
+        const points = torques.map((torqueNm, i) => ({ rpm: (top * i) / (torques.length - 1), torqueNm }))
+        const motor: MotorModel = { ...shadedPoleCurve, points }
+        const supply = { volts, hz: 50 }
+        const peak = breakdownTorque(motor, supply)
+        const bound = prepareMotor(motor).bind(supply)
+        for (let i = 0; i <= 3000; i++) expect(bound.torque((bound.syncRpm * i) / 3000)).toBeLessThanOrEqual(peak.torqueNm * (1 + 1e-12))
+        expect(bound.torque(peak.rpm)).toBe(peak.torqueNm)
+      }),
+      { numRuns: 60 },
+    )
   })
 
   it('reports a duty point on the stable side of the peak with a torque ratio above 1', () => {

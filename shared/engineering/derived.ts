@@ -10,7 +10,7 @@
  *   the product life. Costs are plain numbers in the tariff's currency, unrounded.
  */
 import { EngineeringInputError, requireFinite, requireNonNegative, requirePositive } from './errors'
-import { prepareMotor, type PreparedMotor } from './motor'
+import { prepareMotor, type BoundMotor, type PreparedMotor } from './motor'
 import { validateSupply } from './speed'
 import { COPPER_CONSTANT } from './tolerance'
 import type { MotorModel, OperatingPoint, Supply } from './types'
@@ -32,11 +32,13 @@ export interface Breakdown {
 
 /**
  * Breakdown torque on this supply: the largest shaft torque between standstill and synchronous
- * speed (0 r/min if the locked-rotor torque is the largest). Scan plus golden-section refinement.
+ * speed (0 r/min if the locked-rotor torque is the largest). Measured curves: on a knot, exactly;
+ * circuit models: a scan plus golden-section refinement.
  */
 export function breakdownTorque(motor: MotorModel | PreparedMotor, supply: Supply): Breakdown {
   const bound = prepareMotor(motor).bind(validateSupply(supply))
   const ns = bound.syncRpm
+  if (bound.knotRpms) return peakOnKnots(bound, bound.knotRpms)
   const steps = 300
   let best = 0
   let bestT = bound.torque(0)
@@ -60,6 +62,25 @@ export function breakdownTorque(motor: MotorModel | PreparedMotor, supply: Suppl
   const mid = 0.5 * (a + b)
   const tm = bound.torque(mid)
   return tm > bestT ? { rpm: mid, torqueNm: tm } : { rpm: best, torqueNm: bestT }
+}
+
+/**
+ * A measured curve's peak, exactly: PCHIP has its extrema on knots (and the line beyond the last
+ * point falls to synchronous speed), so the largest torque is at a knot or an end of the range.
+ */
+function peakOnKnots(bound: BoundMotor, knots: readonly number[]): Breakdown {
+  const ns = bound.syncRpm
+  let best = 0
+  let bestT = bound.torque(0)
+  for (const n of [...knots, ns]) {
+    if (!(n > 0 && n <= ns)) continue
+    const t = bound.torque(n)
+    if (t > bestT) {
+      bestT = t
+      best = n
+    }
+  }
+  return { rpm: best, torqueNm: bestT }
 }
 
 export interface BreakdownMargin extends Breakdown {

@@ -28,47 +28,49 @@ export class Pchip {
   constructor(x: ArrayLike<number>, y: ArrayLike<number>) {
     const n = x.length
     if (n < 2 || y.length !== n) throw new RangeError('Pchip needs two or more (x, y) pairs')
-    const xs = Float64Array.from(x)
-    const ys = Float64Array.from(y)
     this.last = n - 1
-    const h = new Float64Array(n - 1)
-    const m = new Float64Array(n - 1)
-    for (let i = 0; i < n - 1; i++) {
-      const hi = at(xs, i + 1) - at(xs, i)
-      if (!(hi > 0)) throw new RangeError('Pchip x must be strictly increasing')
-      h[i] = hi
-      m[i] = (at(ys, i + 1) - at(ys, i)) / hi
-    }
-    const d = new Float64Array(n)
-    if (n === 2) {
-      d[0] = at(m, 0)
-      d[1] = at(m, 0)
-    } else {
-      for (let k = 1; k < n - 1; k++) {
-        const m0 = at(m, k - 1)
-        const m1 = at(m, k)
-        if (m0 === 0 || m1 === 0 || Math.sign(m0) !== Math.sign(m1)) {
-          d[k] = 0
-        } else {
-          const w1 = 2 * at(h, k) + at(h, k - 1)
-          const w2 = at(h, k) + 2 * at(h, k - 1)
-          d[k] = (w1 + w2) / (w1 / m0 + w2 / m1)
-        }
-      }
-      d[0] = edgeDerivative(at(h, 0), at(h, 1), at(m, 0), at(m, 1))
-      d[n - 1] = edgeDerivative(at(h, n - 2), at(h, n - 3), at(m, n - 2), at(m, n - 3))
-    }
+    // The one typed array is the result; the working arrays are plain ones (a catalogue prepares
+    // tens of thousands of curves, and each typed array is a store of its own for the collector).
     const k = new Float64Array(STRIDE * n)
     for (let i = 0; i < n; i++) {
+      k[STRIDE * i] = x[i] as number
+      k[STRIDE * i + 1] = y[i] as number
+    }
+    const h: number[] = []
+    const m: number[] = []
+    for (let i = 0; i < n - 1; i++) {
+      const hi = at(k, STRIDE * (i + 1)) - at(k, STRIDE * i)
+      if (!(hi > 0)) throw new RangeError('Pchip x must be strictly increasing')
+      h.push(hi)
+      m.push((at(k, STRIDE * (i + 1) + 1) - at(k, STRIDE * i + 1)) / hi)
+    }
+    const d: number[] = new Array<number>(n).fill(0)
+    if (n === 2) {
+      d[0] = item(m, 0)
+      d[1] = item(m, 0)
+    } else {
+      for (let j = 1; j < n - 1; j++) {
+        const m0 = item(m, j - 1)
+        const m1 = item(m, j)
+        if (m0 === 0 || m1 === 0 || Math.sign(m0) !== Math.sign(m1)) {
+          d[j] = 0
+        } else {
+          const w1 = 2 * item(h, j) + item(h, j - 1)
+          const w2 = item(h, j) + 2 * item(h, j - 1)
+          d[j] = (w1 + w2) / (w1 / m0 + w2 / m1)
+        }
+      }
+      d[0] = edgeDerivative(item(h, 0), item(h, 1), item(m, 0), item(m, 1))
+      d[n - 1] = edgeDerivative(item(h, n - 2), item(h, n - 3), item(m, n - 2), item(m, n - 3))
+    }
+    for (let i = 0; i < n; i++) {
       const o = STRIDE * i
-      k[o] = at(xs, i)
-      k[o + 1] = at(ys, i)
-      k[o + 2] = at(d, i)
+      k[o + 2] = item(d, i)
       if (i === n - 1) continue
-      const hi = at(h, i)
-      const mi = at(m, i)
-      const d0 = at(d, i)
-      const d1 = at(d, i + 1)
+      const hi = item(h, i)
+      const mi = item(m, i)
+      const d0 = item(d, i)
+      const d1 = item(d, i + 1)
       k[o + 3] = (3 * mi - 2 * d0 - d1) / hi
       k[o + 4] = (d0 + d1 - 2 * mi) / (hi * hi)
     }
@@ -153,5 +155,10 @@ function edgeDerivative(h0: number, h1: number, m0: number, m1: number): number 
 
 /** Typed-array read that satisfies noUncheckedIndexedAccess; indices are in range by construction. */
 function at(a: Float64Array, i: number): number {
+  return a[i] ?? 0
+}
+
+/** The same for the constructor's working arrays. */
+function item(a: readonly number[], i: number): number {
   return a[i] ?? 0
 }
