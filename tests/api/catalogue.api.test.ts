@@ -1,7 +1,10 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import request from 'supertest'
-import { bumpCatalogueRevision, REVISION_TTL_MS } from '../../server/services/catalogue.service'
+import { bumpCatalogueRevision, CatalogueService, REVISION_TTL_MS } from '../../server/services/catalogue.service'
+import { MotorPerformance, MotorVariant } from '../../server/db/entities'
+import { catalogueSource } from '../../shared/selection/run-selection'
+import type { InsulationClassCode } from '../../shared/contracts/catalogue.contract'
 import { insertVariants } from './catalogue-fixtures'
 import { startTestApp, type TestContext } from './support'
 
@@ -110,5 +113,27 @@ describe('catalogue answers cached per revision', () => {
       await bumpCatalogueRevision(manager)
     })
     expect((await detail()).body.name).toBe(local)
+  })
+})
+
+describe('the catalogue as the solver loads it', () => {
+  // load() reads two plain queries; the entities are the reference for what each field holds.
+  it('holds every variant and current performance row with the same values as the entities', async () => {
+    const catalogue = new CatalogueService(ctx.dataSource)
+    const { sources } = await catalogue.catalogueSources()
+    const variants = await ctx.dataSource.getRepository(MotorVariant).find({ order: { partNumber: 'ASC' } })
+    const rows = await ctx.dataSource.getRepository(MotorPerformance).find({ where: { current: true } })
+    // Field for field what catalogueSource() makes of each entity (the code before the plain queries).
+    const fromEntities = variants.map((variant) => catalogueSource(variant.id, variant, variant.type, variant.insulationClass as InsulationClassCode))
+    expect(sources.map((source) => ({ ...source, performance: [] }))).toEqual(fromEntities)
+    expect(sources.some((source) => source.partNumber === `${prefix}-P120` && source.frameDiameterMm === 140)).toBe(true)
+    expect(sources.every((source) => typeof source.otherRotationAvailable === 'boolean')).toBe(true)
+    for (const item of sources) {
+      const expected = rows
+        .filter((row) => row.variantId === item.variantId)
+        .map((row) => ({ id: row.id, tap: row.tap, volts: row.volts, hz: row.hz, referenceTempC: row.referenceTempC, motor: row.motor }))
+        .sort((a, b) => a.id.localeCompare(b.id))
+      expect([...item.performance].sort((a, b) => a.id.localeCompare(b.id))).toEqual(expected)
+    }
   })
 })
