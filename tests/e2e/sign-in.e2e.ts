@@ -63,3 +63,22 @@ test('the dark theme can be switched on', async ({ page }) => {
   await expect(page.locator('.v-theme--dark').first()).toBeVisible()
   await shot(page, 'home-dark')
 })
+
+test('the e-mail field has the focus on arrival and does not take it back from the password field', async ({ page }) => {
+  await page.goto('/sign-in')
+  await expect(page.getByTestId('sign-in-email').locator('input')).toBeFocused()
+
+  // Again, straight on to the password as soon as it is there, as a quick typist or a password
+  // manager does: a focus that lands late (Vuetify's autofocus waits 50 ms after the field comes
+  // into view) would take the rest of the typing into the e-mail field.
+  await page.goto('/sign-in', { waitUntil: 'commit' })
+  const email = page.getByTestId('sign-in-email').locator('input')
+  const password = page.getByTestId('sign-in-password').locator('input')
+  await password.waitFor({ state: 'attached' })
+  await password.focus()
+  await page.keyboard.type('Spinwright-demo-1')
+  await page.waitForTimeout(300)
+  await expect(password).toBeFocused()
+  await expect(email).toHaveValue('')
+  await expect(password).toHaveValue('Spinwright-demo-1')
+})
