@@ -5,7 +5,7 @@ import { SeedMarker } from '../db/entities'
 import { seedDemoUsers } from './demo-users'
 import { seedDemoCatalogue } from './seed-catalogue'
 import { seedDemoPricing } from './demo-pricing'
-import { seedDemoActivity } from './demo-activity'
+import { seedDemoActivity, seedDistributorActivity } from './demo-activity'
 
 export interface SeedStep {
   step: string
@@ -18,6 +18,7 @@ export const SEED_STEPS: SeedStep[] = [
   { step: 'demo-pricing-v1', run: seedDemoPricing },
   // After the pricing: the request takes the account's sales engineer and currency.
   { step: 'demo-activity-v1', run: seedDemoActivity },
+  { step: 'demo-activity-distributor-v1', run: seedDistributorActivity },
 ]
 
 export async function seedDemoData(dataSource: DataSource, steps: SeedStep[] = SEED_STEPS): Promise<string[]> {

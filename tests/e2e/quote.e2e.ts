@@ -229,7 +229,7 @@ test.describe('a quote from a duty study to a paid deposit and a confirmed order
   })
 })
 
-test('a fresh portal shows the demo work in progress: the Larkspur buyer’s study and the request sales finds waiting', async ({ browser }) => {
+test('a fresh portal shows the demo work in progress: each buyer’s study and the requests sales finds waiting', async ({ browser }) => {
   // Seeded once per database by server/seed/demo-activity.ts.
   const sales = await newSignedInPage(browser, 'sales@ashcombe.test', '/quotes')
   const request = sales.locator('[data-test^="quote-row-"]', { hasText: '× 8,000' }).filter({ hasText: 'Larkspur Air Appliances' })
@@ -241,4 +241,13 @@ test('a fresh portal shows the demo work in progress: the Larkspur buyer’s stu
 
   const buyer = await newSignedInPage(browser, 'buyer@larkspur.test', '/studies')
   await expect(buyer.getByText('Range hood, 600 mm canopy')).toBeVisible()
+
+  // The distributor's: a service-replacement study on 230 V 50 Hz and its request.
+  await sales.goto('/quotes')
+  const stock = sales.locator('[data-test^="quote-row-"]', { hasText: '× 1,200' }).filter({ hasText: 'Quillon Supply' })
+  await expect(stock.first()).toContainText('Request received')
+  const distributor = await newSignedInPage(browser, 'buyer@quillon.test', '/studies')
+  await expect(distributor.getByText('Condenser fan 250 mm, service replacement')).toBeVisible()
+  await distributor.goto('/quotes')
+  await expect(distributor.locator('[data-test^="quote-row-"]', { hasText: '× 1,200' }).first()).toBeVisible()
 })
