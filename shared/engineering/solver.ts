@@ -147,7 +147,7 @@ function scanTableOf(bm: BoundMotor, net: NetTorque): ScanTable | undefined {
 
 /**
  * Tabulates a bound motor's scan from standstill now, rather than on its second solve: a
- * selection plan does it for every motor it binds, so each motor's table lies next to it in memory.
+ * selection plan does it for every motor it binds, so no run pays a first, untabulated solve.
  */
 export function tabulateScan(bm: BoundMotor): void {
   bm.scanTable ??= buildScanTable(bm)

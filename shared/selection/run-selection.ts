@@ -198,8 +198,8 @@ export function provablyShort(test: ShortfallTest, row: CataloguePerformance, po
  * standstill it meets the load at a lower speed (or never starts): its nominal flow is short of
  * the requirement. Holds under the same premise as the first (load torque not falling with speed).
  */
-export function shortAtRequired(test: ShortfallTest, motor: PreparedMotor, supply: Supply): boolean {
-  return motor.bind(supply).torque(test.nRequired) < test.torqueAtRequired
+export function shortAtRequired(test: ShortfallTest, motor: BoundMotor): boolean {
+  return motor.torque(test.nRequired) < test.torqueAtRequired
 }
 
 /** Supplies within this fraction of a row's volts (same Hz) use that row, scaled by the core. */
@@ -459,12 +459,12 @@ function nominalMeets(nominal: OperatingPoint, requiredFlow: number): boolean {
 /**
  * Low line, and the hot winding at low line only where it could still change the verdict (a cold
  * motor already short stays short hot). With a shortfall test, a motor proven short at low line
- * (or hot) by shortAtRequired()'s test is settled without that solve: the solve could only confirm
+ * (or hot) by shortAtRequired() is settled without that solve: the solve could only confirm
  * it. The motors come bound to the low-line supply from the plan (rowsOnSupply).
  */
 function settleWorstCase(item: Scored, load: PreparedLoad, low: RowsOnSupply, requiredFlow: number, shortfall: ShortfallTest | null): void {
   const motor = low.bound[item.index] as BoundMotor
-  if (shortfall && motor.torque(shortfall.nRequired) < shortfall.torqueAtRequired) {
+  if (shortfall && shortAtRequired(shortfall, motor)) {
     item.worstShort = true
     return
   }
@@ -472,7 +472,7 @@ function settleWorstCase(item: Scored, load: PreparedLoad, low: RowsOnSupply, re
   item.lowLine = lowLine
   const hot = low.hot[item.index]
   if (!hot || !lowLineGood(lowLine, requiredFlow)) return
-  if (shortfall && hot.torque(shortfall.nRequired) < shortfall.torqueAtRequired) {
+  if (shortfall && shortAtRequired(shortfall, hot)) {
     item.worstShort = true
     return
   }
@@ -715,8 +715,8 @@ export function rankCatalogue(catalogue: readonly CatalogueEntry[], frame: Study
       // where it decides the tier: a nominal point short of the duty is tier 2 to 4 whatever low
       // line gives. Returned candidates get the rest in buildCandidate(). A candidate proven
       // short without solving waits: it ranks below every one that meets the duty at nominal.
-      // The same tests as provablyShort() and shortAtRequired(), read from the plan's arrays.
-      if (shortfall && ((plan.syncRpm[r] ?? 0) < shortfall.nRequired || (plan.ceilingNm[r] ?? 0) < shortfall.torqueAtRequired || (plan.bound[r] as BoundMotor).torque(shortfall.nRequired) < shortfall.torqueAtRequired)) {
+      // provablyShort()'s tests read from the plan's arrays, then shortAtRequired() on the plan's motor.
+      if (shortfall && ((plan.syncRpm[r] ?? 0) < shortfall.nRequired || (plan.ceilingNm[r] ?? 0) < shortfall.torqueAtRequired || shortAtRequired(shortfall, plan.bound[r] as BoundMotor))) {
         deferred.push(r)
         deferredEntry.push(entry)
         continue
