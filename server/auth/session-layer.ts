@@ -4,7 +4,7 @@
 // off), and passport would find nobody in it. Anonymous browsing of the catalogue is most of the
 // portal's traffic, so that was a good part of each request's cost. Writes always get the layers
 // (the CSRF guard refuses them without a session), as does the one read that starts a session.
-import type { RequestHandler } from 'express'
+import { Router, type RequestHandler } from 'express'
 
 const READS = new Set(['GET', 'HEAD', 'OPTIONS'])
 
@@ -14,21 +14,9 @@ export function carriesCookie(header: string | undefined, cookieName: string): b
 }
 
 export function sessionLayer(cookieName: string, startsSession: (path: string) => boolean, layers: readonly RequestHandler[]): RequestHandler {
+  const withSession = Router().use(...layers)
   return (req, res, next) => {
     if (READS.has(req.method) && !startsSession(req.path) && !carriesCookie(req.headers.cookie, cookieName)) return next()
-    let index = 0
-    const step = (error?: unknown): void => {
-      const layer = layers[index++]
-      if (error !== undefined || !layer) {
-        next(error)
-        return
-      }
-      try {
-        void layer(req, res, step)
-      } catch (thrown) {
-        next(thrown)
-      }
-    }
-    step()
+    withSession(req, res, next)
   }
 }
